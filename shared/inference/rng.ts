@@ -1,0 +1,105 @@
+// Seeded pseudo-random numbers for every fit and simulation.
+//
+// xoshiro128** (Blackman & Vigna, "Scrambled linear pseudorandom number generators",
+// 2021) seeded through splitmix32, so any integer seed gives a well-mixed state.
+// Nothing in Layline calls Math.random(): pass an Rng in.
+
+export interface Rng {
+  /** Uniform on the open interval (0, 1): never exactly 0 or 1, so logs are safe. */
+  uniform(): number;
+  /** Standard normal draw. */
+  normal(): number;
+  /** Uniform integer in [0, n). */
+  int(n: number): number;
+  /** A new generator whose stream is independent of this one's for practical purposes. */
+  split(): Rng;
+}
+
+function splitmix32(seed: number): () => number {
+  let s = seed >>> 0;
+  return () => {
+    s = (s + 0x9e3779b9) >>> 0;
+    let z = s;
+    z = Math.imul(z ^ (z >>> 16), 0x85ebca6b) >>> 0;
+    z = Math.imul(z ^ (z >>> 13), 0xc2b2ae35) >>> 0;
+    return (z ^ (z >>> 16)) >>> 0;
+  };
+}
+
+class Xoshiro128 implements Rng {
+  private a: number;
+  private b: number;
+  private c: number;
+  private d: number;
+  private spareNormal = NaN;
+
+  constructor(seed: number) {
+    const next = splitmix32(seed);
+    this.a = next();
+    this.b = next();
+    this.c = next();
+    this.d = next();
+    if ((this.a | this.b | this.c | this.d) === 0) this.d = 1;
+  }
+
+  private nextUint32(): number {
+    const result = Math.imul(rotl(Math.imul(this.b, 5) >>> 0, 7), 9) >>> 0;
+    const t = (this.b << 9) >>> 0;
+    this.c ^= this.a;
+    this.d ^= this.b;
+    this.b ^= this.c;
+    this.a ^= this.d;
+    this.c ^= t;
+    this.d = rotl(this.d, 11);
+    return result;
+  }
+
+  uniform(): number {
+    // 53 random bits mapped into (0, 1), with the +0.5 keeping both ends open.
+    const hi = this.nextUint32() >>> 5;
+    const lo = this.nextUint32() >>> 6;
+    return (hi * 67108864 + lo + 0.5) / 9007199254740992;
+  }
+
+  normal(): number {
+    // Marsaglia's polar method; caches the second draw of each pair.
+    if (!Number.isNaN(this.spareNormal)) {
+      const z = this.spareNormal;
+      this.spareNormal = NaN;
+      return z;
+    }
+    let u: number;
+    let v: number;
+    let s: number;
+    do {
+      u = 2 * this.uniform() - 1;
+      v = 2 * this.uniform() - 1;
+      s = u * u + v * v;
+    } while (s >= 1 || s === 0);
+    const f = Math.sqrt((-2 * Math.log(s)) / s);
+    this.spareNormal = v * f;
+    return u * f;
+  }
+
+  int(n: number): number {
+    if (!(n >= 1) || !Number.isInteger(n)) throw new RangeError(`Rng.int needs a whole number n >= 1, got ${n}`);
+    return Math.floor(this.uniform() * n);
+  }
+
+  split(): Rng {
+    return new Xoshiro128(this.nextUint32() ^ 0x5bd1e995);
+  }
+}
+
+function rotl(x: number, k: number): number {
+  return ((x << k) | (x >>> (32 - k))) >>> 0;
+}
+
+/**
+ * A seeded generator.
+ * @example createRng(42).uniform() // the same value on every run and machine
+ */
+export function createRng(seed: number): Rng {
+  if (!Number.isFinite(seed)) throw new RangeError(`seed must be a finite number, got ${seed}`);
+  return new Xoshiro128(Math.trunc(seed));
+}

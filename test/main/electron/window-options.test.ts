@@ -1,0 +1,18 @@
+import { describe, expect, it } from 'vitest';
+import { mainWindowOptions } from '../../../main/electron/window-options';
+
+describe('mainWindowOptions', () => {
+  it('turns on every isolation setting the app relies on', () => {
+    const prefs = mainWindowOptions('/app/preload.cjs').webPreferences;
+    expect(prefs).toMatchObject({
+      preload: '/app/preload.cjs',
+      contextIsolation: true,
+      sandbox: true,
+      nodeIntegration: false,
+      nodeIntegrationInWorker: false,
+      webSecurity: true,
+      allowRunningInsecureContent: false,
+      webviewTag: false,
+    });
+  });
+});

@@ -1,0 +1,32 @@
+import { readFileSync } from 'node:fs';
+import { defineConfig } from 'vitest/config';
+
+const pkg = JSON.parse(readFileSync(new URL('./package.json', import.meta.url), 'utf8')) as { version: string };
+
+export default defineConfig({
+  define: { LAYLINE_VERSION: JSON.stringify(pkg.version) },
+  esbuild: { jsx: 'automatic', jsxImportSource: 'preact' },
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: {
+          name: 'unit',
+          include: ['test/**/*.test.ts', 'test/**/*.test.tsx'],
+          exclude: ['test/e2e/**', 'node_modules/**'],
+          testTimeout: 30_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          include: ['test/e2e/**/*.test.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+});
