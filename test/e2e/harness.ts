@@ -20,6 +20,8 @@ export interface Harness {
   readonly close: () => Promise<void>;
 }
 
+const errorsByPage = new WeakMap<Page, string[]>();
+
 export async function startHarness(): Promise<Harness> {
   if (!existsSync(chromiumPath)) {
     throw new Error(`Chromium not found at ${chromiumPath}. Install it (apt-get install chromium) or set LAYLINE_CHROMIUM. E2E tests never skip.`);
@@ -42,7 +44,7 @@ export async function startHarness(): Promise<Harness> {
       page.on('console', (msg) => {
         if (msg.type() === 'error') errors.push(msg.text());
       });
-      (page as Page & { pageErrors?: string[] }).pageErrors = errors;
+      errorsByPage.set(page, errors);
       pages.push(page);
       return page;
     },
@@ -60,5 +62,5 @@ export async function startHarness(): Promise<Harness> {
 
 /** Errors the page logged (uncaught exceptions and console.error), for asserting a clean run. */
 export function pageErrors(page: Page): string[] {
-  return (page as Page & { pageErrors?: string[] }).pageErrors ?? [];
+  return errorsByPage.get(page) ?? [];
 }
