@@ -18,6 +18,8 @@ export interface Model {
   logDensityGrad(theta: Float64Array, grad: Float64Array): number;
   /** Present when the model supports minibatch (stochastic) gradients. */
   readonly minibatch?: MinibatchModel;
+  /** Writes a sensible starting point (e.g. from data moments) into `out`; algorithms use zeros without it. */
+  initialPoint?(out: Float64Array): void;
 }
 
 export interface MinibatchModel {
