@@ -17,6 +17,23 @@ export default defineConfig({
           testTimeout: 30_000,
         },
       },
+      // The time and itinerary tests again under three machine zones: DST handling must not depend on the process TZ.
+      ...(
+        [
+          ['tz-utc', 'UTC'],
+          ['tz-new-york', 'America/New_York'],
+          ['tz-sydney', 'Australia/Sydney'],
+        ] as const
+      ).map(([name, tz]) => ({
+        extends: true,
+        test: {
+          name,
+          include: ['test/shared/time/**/*.test.ts', 'test/shared/itinerary/**/*.test.ts'],
+          exclude: ['test/shared/time/airports.test.ts'],
+          env: { TZ: tz },
+          testTimeout: 30_000,
+        },
+      })),
       {
         extends: true,
         test: {
