@@ -1,0 +1,98 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import type { Model } from '../../../../shared/inference/model';
+import { checkVariationalFit, fitGeneralisedPareto, paretoKThreshold, paretoSmooth } from '../../../../shared/inference/diagnostics/psis';
+import { createRng } from '../../../../shared/inference/rng';
+
+interface PsisCase {
+  name: string;
+  logWeights: number[];
+  k: number;
+  smoothed: number[];
+}
+
+// Produced by test/fixtures/inference/diagnostics/make-fixtures.py with ArviZ 0.23.4 (az.psislw).
+const fixture = JSON.parse(readFileSync(new URL('../../../fixtures/inference/diagnostics/arviz-reference.json', import.meta.url), 'utf8')) as { psis: PsisCase[] };
+
+describe('paretoSmooth against ArviZ 0.23.4 psislw', () => {
+  it.each(fixture.psis)('$name: same k-hat and smoothed log weights', (c) => {
+    const result = paretoSmooth(Float64Array.from(c.logWeights));
+    expect(Math.abs(result.k - c.k), `k: expected ${c.k}, actual ${result.k}`).toBeLessThan(1e-9 * Math.max(1, Math.abs(c.k)));
+    let worst = 0;
+    c.smoothed.forEach((v, i) => (worst = Math.max(worst, Math.abs(result.logWeights[i]! - v))));
+    expect(worst, 'largest absolute difference in smoothed log weights').toBeLessThan(1e-9);
+  });
+});
+
+describe('fitGeneralisedPareto', () => {
+  it.each([0.2, 0.5, 0.8])('recovers shape k = %s from 4000 exact GPD draws (inversion of the closed-form CDF)', (k) => {
+    const rng = createRng(Math.round(k * 100));
+    const sigma = 2;
+    const x = new Float64Array(4000);
+    for (let i = 0; i < x.length; i++) x[i] = (sigma * (Math.pow(rng.uniform(), -k) - 1)) / k;
+    x.sort();
+    const fit = fitGeneralisedPareto(x);
+    expect(Math.abs(fit.k - k)).toBeLessThan(0.07);
+    expect(Math.abs(fit.sigma / sigma - 1)).toBeLessThan(0.1);
+  });
+
+  it('returns NaN for fewer than 5 values or non-finite input', () => {
+    expect(fitGeneralisedPareto(Float64Array.from([1, 2, 3])).k).toBeNaN();
+    expect(fitGeneralisedPareto(Float64Array.from([1, 2, 3, 4, Infinity])).k).toBeNaN();
+  });
+});
+
+describe('paretoSmooth edge cases', () => {
+  it('gives NaN for NaN input, Infinity for a tied tail, and rejects fewer than 2 draws', () => {
+    expect(paretoSmooth(Float64Array.from([0, NaN, 1, 2])).k).toBeNaN();
+    expect(paretoSmooth(new Float64Array(100).fill(-3)).k).toBe(Infinity);
+    expect(() => paretoSmooth(new Float64Array(1))).toThrow(RangeError);
+  });
+
+  it('returns self-normalised weights', () => {
+    const rng = createRng(3);
+    const lw = Float64Array.from({ length: 500 }, () => 2 * rng.normal());
+    const { logWeights } = paretoSmooth(lw);
+    const total = logWeights.reduce((s, v) => s + Math.exp(v), 0);
+    expect(total).toBeCloseTo(1, 12);
+  });
+
+  it('uses the sample-size threshold min(1 - 1/log10 S, 0.7) (Vehtari et al. 2024)', () => {
+    expect(paretoKThreshold(100)).toBeCloseTo(0.5, 12);
+    expect(paretoKThreshold(1e6)).toBe(0.7);
+  });
+});
+
+// A correlated Gaussian target: log N(x; 0, Sigma) with unit variances and correlation rho.
+function correlatedGaussian(rho: number): Model {
+  const det = 1 - rho * rho;
+  return {
+    dim: 2,
+    names: ['x', 'y'],
+    logDensityGrad(t, g) {
+      const x = t[0]!;
+      const y = t[1]!;
+      g[0] = -(x - rho * y) / det;
+      g[1] = -(y - rho * x) / det;
+      return (-0.5 * (x * x - 2 * rho * x * y + y * y)) / det;
+    },
+  };
+}
+
+describe('checkVariationalFit (Yao et al. 2018)', () => {
+  it('calls the exact full-rank Gaussian good and a mean-field fit of a rho = 0.95 posterior unreliable', () => {
+    const rho = 0.95;
+    const model = correlatedGaussian(rho);
+    const exact = checkVariationalFit(model, { mean: new Float64Array(2), cholesky: Float64Array.from([1, 0, rho, Math.sqrt(1 - rho * rho)]) }, createRng(1), 2000);
+    expect(exact.verdict).toBe('good');
+    // The mean-field optimum for a Gaussian has sd = sqrt(1 - rho^2): too narrow.
+    const narrow = Math.sqrt(1 - rho * rho);
+    const meanField = checkVariationalFit(model, { mean: new Float64Array(2), sd: Float64Array.from([narrow, narrow]) }, createRng(1), 2000);
+    expect(meanField.k).toBeGreaterThan(0.7);
+    expect(meanField.verdict).toBe('unreliable');
+  });
+
+  it('rejects an approximation of the wrong size', () => {
+    expect(() => checkVariationalFit(correlatedGaussian(0), { mean: new Float64Array(3), sd: new Float64Array(3).fill(1) }, createRng(1))).toThrow(RangeError);
+  });
+});
