@@ -120,7 +120,7 @@ export interface TopConnection {
   /** Group travellers booked on this connection. */
   readonly travelers: number;
   readonly pMiss: number;
-  /** Monte Carlo mean number of group travellers who miss this connection. */
+  /** Expected number of group travellers who miss this connection: travelers x pMiss. */
   readonly expectedMisses: number;
 }
 

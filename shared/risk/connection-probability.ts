@@ -1,0 +1,221 @@
+// P(make) of one connection, its credible interval, the minimum layover for a target, and the
+// curves the UI charts (P(make) against layover; the predictive distribution of the margin).
+//
+// A connection is made when A - D <= layover - MCT (A: inbound arrival delay, D: outbound
+// departure delay, independent given the parameters). Per posterior draw,
+//   P(A - D <= m) = integral f_D(d) F_A(m + d) dd,
+// by the trapezoid rule on the whole-minute grid of delay-table.ts with exact cell masses of D.
+// The posterior predictive is the mean over draws; the credible interval is the central quantile
+// range across draws. The result is monotone in m by construction (non-negative weights times a
+// CDF), which the bisection for the minimum layover relies on.
+import type { DrawTable, RouteTables } from './delay-table';
+
+/** Longest layover the minimum-layover search considers (minutes): a longer gap is a stopover. */
+export const MAX_LAYOVER_MINUTES = 1440;
+
+/** P(A - D <= m) under one draw, for a whole-minute m. */
+export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m: number): number {
+  const shift = m + departure.lo - arrival.lo;
+  const nD = departure.weight.length;
+  const nA = arrival.cdf.length;
+  // Grid points i of D whose m + d_i falls on A's grid: 0 <= i + shift < nA.
+  const iStart = Math.max(0, -shift);
+  const iEnd = Math.min(nD, nA - shift);
+  const w = departure.weight;
+  const fa = arrival.cdf;
+  let sum = 0;
+  for (let i = iStart; i < iEnd; i++) sum += (w[i] ?? 0) * (fa[i + shift] ?? 0);
+  // Points of D beyond A's grid (F_A there is ~1), and D's own mass beyond its grid.
+  const firstAbove = Math.max(iStart, iEnd);
+  if (firstAbove < nD || departure.highMass > 0) {
+    if (arrival.heavyTail) {
+      for (let i = firstAbove; i < nD; i++) sum += (w[i] ?? 0) * arrival.cdfAt(m + departure.lo + i);
+      sum += departure.highMass * arrival.cdfAt(m + departure.hi);
+    } else {
+      // weightAbove already ends with D's mass beyond its grid.
+      sum += (departure.weightAbove[Math.min(firstAbove, nD)] ?? 0) * (firstAbove < nD ? arrival.beyondHi : arrival.cdfAt(m + departure.hi));
+    }
+  }
+  // D's mass below its grid meets F_A(m + lo_D) or less: an upper bound of at most 1e-12.
+  sum += departure.lowMass * arrival.cdfAt(m + departure.lo);
+  return Math.min(1, Math.max(0, sum));
+}
+
+/** The inbound arrival posterior and the outbound departure posterior of one connection. */
+export class ConnectionPair {
+  readonly draws: number;
+  private readonly memo = new Map<number, Float64Array>();
+
+  constructor(
+    readonly arrival: RouteTables,
+    readonly departure: RouteTables,
+  ) {
+    if (arrival.draws !== departure.draws) throw new RangeError(`both routes must use the same joint draws (${arrival.draws} vs ${departure.draws})`);
+    if (arrival.posterior.kind !== 'arrival' || departure.posterior.kind !== 'departure') {
+      throw new RangeError('a connection pairs the inbound arrival posterior with the outbound departure posterior');
+    }
+    this.draws = arrival.draws;
+  }
+
+  /**
+   * P_t(A - D <= m) for every joint draw t, m a whole number of minutes (not rounded: a
+   * fractional m is a RangeError, NaN gives NaN). Memoised per m.
+   */
+  drawProbabilities(m: number): Float64Array {
+    if (Number.isNaN(m)) return new Float64Array(this.draws).fill(NaN);
+    if (!Number.isInteger(m)) throw new RangeError(`the margin must be whole minutes, got ${m}`);
+    let out = this.memo.get(m);
+    if (!out) {
+      out = new Float64Array(this.draws);
+      for (let t = 0; t < this.draws; t++) out[t] = drawMakeProbability(this.arrival.table(t), this.departure.table(t), m);
+      this.memo.set(m, out);
+    }
+    return out;
+  }
+
+  /** Posterior predictive P(A - D <= m). */
+  probability(m: number): number {
+    return mean(this.drawProbabilities(m));
+  }
+}
+
+/**
+ * Posterior predictive P(make) at a layover. Layover and MCT in whole minutes; NaN gives NaN.
+ * @example pMakeAtLayover(pair, 75, 45) // P(A - D <= 30)
+ */
+export function pMakeAtLayover(pair: ConnectionPair, layoverMinutes: number, mctMinutes: number): number {
+  return pair.probability(layoverMinutes - mctMinutes);
+}
+
+/** Central credible interval of P(make) across draws at `level` (e.g. 0.9 gives 5%-95%). */
+export function pMakeIntervalAtLayover(pair: ConnectionPair, layoverMinutes: number, mctMinutes: number, level: number): [number, number] {
+  return centralInterval(pair.drawProbabilities(layoverMinutes - mctMinutes), level);
+}
+
+/**
+ * The smallest whole-minute layover L in [0, MAX_LAYOVER_MINUTES] with P(make at L) >= target;
+ * null when even the longest does not reach it. target must lie in (0, 1), else RangeError.
+ *
+ * Brackets from a rough guess by doubling steps, then bisects on whole minutes, so at the
+ * answer P >= target and at one minute less P < target, exactly, for the same function.
+ */
+export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target: number): number | null {
+  if (!(target > 0 && target < 1)) throw new RangeError(`target must lie in (0, 1), got ${target}`);
+  if (!Number.isInteger(mctMinutes)) throw new RangeError(`MCT must be whole minutes, got ${mctMinutes}`);
+  const reaches = (layover: number) => pair.probability(layover - mctMinutes) >= target;
+  const guess = Math.min(MAX_LAYOVER_MINUTES, Math.max(0, roughLayoverGuess(pair, mctMinutes, target)));
+  let bad: number; // largest layover known to miss the target (or -1)
+  let good: number; // smallest layover known to reach it
+  if (reaches(guess)) {
+    good = guess;
+    bad = -1;
+    for (let step = 4; good > 0; step *= 2) {
+      const probe = Math.max(0, good - step);
+      if (reaches(probe)) good = probe;
+      else {
+        bad = probe;
+        break;
+      }
+    }
+    if (good === 0) return 0;
+  } else {
+    bad = guess;
+    good = -1;
+    for (let step = 4; ; step *= 2) {
+      if (bad >= MAX_LAYOVER_MINUTES) return null;
+      const probe = Math.min(MAX_LAYOVER_MINUTES, bad + step);
+      if (reaches(probe)) {
+        good = probe;
+        break;
+      }
+      bad = probe;
+    }
+  }
+  while (good - bad > 1) {
+    const mid = Math.floor((good + bad) / 2);
+    if (reaches(mid)) good = mid;
+    else bad = mid;
+  }
+  return good;
+}
+
+// A starting point for the bracket: the target quantile of A minus the median of D in the
+// middle draw, plus MCT. Only the search's speed depends on it, never its answer.
+function roughLayoverGuess(pair: ConnectionPair, mctMinutes: number, target: number): number {
+  const t = Math.floor(pair.draws / 2);
+  const a = pair.arrival.table(t).inverse(target);
+  const d = pair.departure.table(t).inverse(0.5);
+  const guess = Math.round(a - d + mctMinutes);
+  return Number.isFinite(guess) ? guess : mctMinutes;
+}
+
+export interface MakeCurveOptions {
+  readonly mctMinutes: number;
+  readonly intervalLevel: number;
+  readonly fromMinutes: number;
+  readonly toMinutes: number;
+  readonly stepMinutes?: number;
+}
+
+/** P(make) and its credible band at whole-minute layovers fromMinutes..toMinutes. */
+export function makeCurvePoints(pair: ConnectionPair, options: MakeCurveOptions): { layoverMinutes: number; pMake: number; lo: number; hi: number }[] {
+  const step = options.stepMinutes ?? 1;
+  if (!Number.isInteger(step) || step < 1) throw new RangeError(`step must be a whole number of minutes >= 1, got ${step}`);
+  if (!Number.isInteger(options.fromMinutes) || !Number.isInteger(options.toMinutes) || options.toMinutes < options.fromMinutes) {
+    throw new RangeError(`curve range must be whole minutes with from <= to, got ${options.fromMinutes}..${options.toMinutes}`);
+  }
+  const points = [];
+  for (let layover = options.fromMinutes; layover <= options.toMinutes; layover += step) {
+    const draws = pair.drawProbabilities(layover - options.mctMinutes);
+    const [lo, hi] = centralInterval(draws, options.intervalLevel);
+    points.push({ layoverMinutes: layover, pMake: mean(draws), lo, hi });
+  }
+  return points;
+}
+
+/**
+ * The whole-minute m where the predictive P(A - D <= m) first reaches p (p in (0, 1)), searched
+ * within +-2 days; used to choose a chart's range.
+ */
+export function differenceQuantile(pair: ConnectionPair, p: number): number {
+  let a = -2880;
+  let b = 2880;
+  if (pair.probability(a) >= p) return a;
+  if (pair.probability(b) < p) return b;
+  while (b - a > 1) {
+    const mid = Math.floor((a + b) / 2);
+    if (pair.probability(mid) >= p) b = mid;
+    else a = mid;
+  }
+  return b;
+}
+
+export function mean(values: ArrayLike<number>): number {
+  let s = 0;
+  for (let i = 0; i < values.length; i++) s += values[i] ?? NaN;
+  return values.length ? s / values.length : NaN;
+}
+
+/**
+ * The central interval holding `level` of the values: quantiles (1 - level)/2 and (1 + level)/2,
+ * linear between order statistics (Hyndman & Fan 1996, definition 7). level outside (0, 1) is a
+ * RangeError; any NaN value gives [NaN, NaN].
+ * @example centralInterval([1, 2, 3, 4, 5], 0.5) // returns [2, 4]
+ */
+export function centralInterval(values: ArrayLike<number>, level: number): [number, number] {
+  if (!(level > 0 && level < 1)) throw new RangeError(`interval level must lie in (0, 1), got ${level}`);
+  const sorted = Float64Array.from(values).sort();
+  if (sorted.length === 0 || Number.isNaN(sorted[sorted.length - 1] ?? NaN)) return [NaN, NaN];
+  return [sortedQuantile(sorted, (1 - level) / 2), sortedQuantile(sorted, (1 + level) / 2)];
+}
+
+/** Quantile p of ascending values, Hyndman & Fan definition 7 (R's and NumPy's default). */
+export function sortedQuantile(sorted: ArrayLike<number>, p: number): number {
+  const n = sorted.length;
+  if (n === 0) return NaN;
+  const h = (n - 1) * p;
+  const i = Math.floor(h);
+  const lo = sorted[i] ?? NaN;
+  const hi = sorted[Math.min(n - 1, i + 1)] ?? NaN;
+  return lo + (h - i) * (hi - lo);
+}

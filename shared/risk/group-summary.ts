@@ -1,0 +1,105 @@
+// The group view: how many travellers miss at least one connection, with its whole distribution,
+// and the connections that contribute most.
+//
+// Each traveller counts once, on the best-ranked option of each of their trips. Travellers on
+// the same flight share its simulated delay, so the count's spread includes their misses together.
+import { flightKey, type TripSimulation } from './trip-simulation';
+import type { GroupSummary, ScoredTrip, TopConnection } from './types';
+
+const TOP_CONNECTIONS = 10;
+
+function travelerKey(trip: ScoredTrip): string {
+  // Without a traveller name, each trip stands for its own traveller.
+  return trip.traveler !== '' ? `t:${trip.traveler}` : `id:${trip.id}`;
+}
+
+export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly TripSimulation[], simulations: number): GroupSummary {
+  const travelerIndex = new Map<string, number>();
+  for (const trip of trips) if (!travelerIndex.has(travelerKey(trip))) travelerIndex.set(travelerKey(trip), travelerIndex.size);
+  const travelers = travelerIndex.size;
+  const chosen = trips.map((t, k) => ({ trip: t, sim: sims[k] })).filter((x) => x.trip.optionRank === 1);
+
+  // Per simulation, which travellers missed; then the count.
+  const counts = new Uint32Array(simulations);
+  const missedBy = new Uint8Array(travelers);
+  for (let i = 0; i < simulations; i++) {
+    missedBy.fill(0);
+    let count = 0;
+    for (const { trip, sim } of chosen) {
+      if (!sim || !sim.missed[i]) continue;
+      const who = travelerIndex.get(travelerKey(trip)) ?? 0;
+      if (!missedBy[who]) {
+        missedBy[who] = 1;
+        count++;
+      }
+    }
+    counts[i] = count;
+  }
+  const distribution = new Array<number>(travelers + 1).fill(0);
+  let sum = 0;
+  let sumSq = 0;
+  for (let i = 0; i < simulations; i++) {
+    const c = counts[i] ?? 0;
+    distribution[c] = (distribution[c] ?? 0) + 1;
+    sum += c;
+    sumSq += c * c;
+  }
+  const expected = sum / simulations;
+  const variance = Math.max(0, sumSq / simulations - expected * expected);
+  const countDistribution = distribution.map((n) => n / simulations);
+  const atLeast = (k: number) => countDistribution.slice(k).reduce((a, b) => a + b, 0);
+  return {
+    travelers,
+    simulations,
+    optionPolicy: 'best-ranked',
+    expectedMisconnecting: expected,
+    expectedMisconnectingStdError: Math.sqrt(variance / simulations),
+    pAtLeast: { '1': atLeast(1), '2': atLeast(2), '3': atLeast(3), '4': atLeast(4), '5': atLeast(5) },
+    countDistribution,
+    topConnections: topConnections(chosen.map((x) => x.trip)),
+  };
+}
+
+function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
+  const byKey = new Map<string, { sample: Omit<TopConnection, 'travelers' | 'expectedMisses'>; who: Set<string> }>();
+  for (const trip of trips) {
+    for (const c of trip.connections) {
+      if (!c.scored || c.pMake === null) continue;
+      const inbound = trip.legs[c.inboundLeg];
+      const outbound = trip.legs[c.inboundLeg + 1];
+      if (!inbound || !outbound) continue;
+      const key = `${flightKey(inbound)}>${flightKey(outbound)}`;
+      let entry = byKey.get(key);
+      if (!entry) {
+        entry = {
+          sample: {
+            airport: c.airport,
+            inboundFlight: inbound.flight,
+            inboundDate: inbound.departLocal.slice(0, 10),
+            outboundFlight: outbound.flight,
+            outboundDate: outbound.departLocal.slice(0, 10),
+            pMiss: 1 - c.pMake,
+          },
+          who: new Set(),
+        };
+        byKey.set(key, entry);
+      }
+      entry.who.add(travelerKey(trip));
+    }
+  }
+  return [...byKey.values()]
+    .map(({ sample, who }) => ({ ...sample, travelers: who.size, expectedMisses: who.size * sample.pMiss }))
+    .sort(
+      (a, b) =>
+        b.expectedMisses - a.expectedMisses ||
+        cmp(a.airport, b.airport) ||
+        cmp(a.inboundDate, b.inboundDate) ||
+        cmp(a.inboundFlight, b.inboundFlight) ||
+        cmp(a.outboundFlight, b.outboundFlight),
+    )
+    .slice(0, TOP_CONNECTIONS);
+}
+
+function cmp(a: string, b: string): number {
+  return a < b ? -1 : a > b ? 1 : 0;
+}

@@ -1,0 +1,291 @@
+// Scores parsed trips against a posterior source: every connection, every trip, the ranking of
+// alternative options, and the group of travellers.
+//
+// Connection numbers (P(make), intervals, minimum layover) and P(all connections) come from
+// quadrature per posterior draw and are free of simulation noise; arrival delays, deadlines and
+// the group come from the seeded joint simulation in trip-simulation.ts.
+import type { PosteriorSource, RoutePosterior } from '../delay/predictive';
+import type { Leg, ParsedTrips, Problem, Trip } from '../itinerary/types';
+import { centralInterval, ConnectionPair, mean, minimumLayover } from './connection-probability';
+import { RouteTables } from './delay-table';
+import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct } from './mct';
+import { rankOptions } from './option-ranking';
+import { summariseGroup } from './group-summary';
+import { flightKey, selectQuantile, simulateTrips, type SimConnection, type SimFlight, type SimTrip } from './trip-simulation';
+import {
+  RISK_CAUTION,
+  type RiskFlag,
+  type RiskWarning,
+  type RouteEvidence,
+  type ScoredConnection,
+  type ScoredTrip,
+  type ScoredTrips,
+  type ScoreOptions,
+} from './types';
+
+/** Joint posterior draws used at most; fewer when a route has fewer. */
+export const MAX_JOINT_DRAWS = 100;
+export const DEFAULT_TARGET = 0.9;
+export const DEFAULT_INTERVAL_LEVEL = 0.9;
+export const DEFAULT_REBOOK_GAP_MINUTES = 180;
+export const DEFAULT_SIMULATIONS = 4000;
+export const DEFAULT_SEED = 1;
+
+interface RouteSlot {
+  readonly posterior: RoutePosterior;
+  tables?: RouteTables;
+}
+
+/** Validated numeric options; a bad value is a RangeError naming the option. */
+export function resolveScoreSettings(options: ScoreOptions) {
+  const target = options.target ?? DEFAULT_TARGET;
+  if (!(target > 0 && target < 1)) throw new RangeError(`target must lie strictly between 0 and 1, got ${target}`);
+  const intervalLevel = options.intervalLevel ?? DEFAULT_INTERVAL_LEVEL;
+  if (!(intervalLevel > 0 && intervalLevel < 1)) throw new RangeError(`interval level must lie strictly between 0 and 1, got ${intervalLevel}`);
+  const rebookGap = options.rebookGapMinutes ?? DEFAULT_REBOOK_GAP_MINUTES;
+  checkGap(rebookGap, 'rebook gap');
+  for (const [trip, gap] of Object.entries(options.rebookGapByTrip ?? {})) checkGap(gap, `rebook gap of trip ${trip}`);
+  const simulations = options.simulations ?? DEFAULT_SIMULATIONS;
+  if (!Number.isInteger(simulations) || simulations < 100 || simulations > 1_000_000) throw new RangeError(`simulations must be a whole number from 100 to 1000000, got ${simulations}`);
+  const seed = options.seed ?? DEFAULT_SEED;
+  if (!Number.isInteger(seed) || seed < 0 || seed > 0xffffffff) throw new RangeError(`seed must be a whole number from 0 to 4294967295, got ${seed}`);
+  const transferMinutes = options.transferMinutes ?? DEFAULT_TRANSFER_MINUTES;
+  if (!Number.isInteger(transferMinutes) || transferMinutes < 0 || transferMinutes > 1440) throw new RangeError(`transfer allowance must be whole minutes from 0 to 1440, got ${transferMinutes}`);
+  return { target, intervalLevel, rebookGap, simulations, seed, transferMinutes };
+}
+
+function checkGap(gap: number, what: string): void {
+  if (!Number.isInteger(gap) || gap < 1 || gap > 2880) throw new RangeError(`${what} must be whole minutes from 1 to 2880, got ${gap}`);
+}
+
+function evidence(tables: RouteTables): RouteEvidence {
+  const p = tables.posterior;
+  return { origin: p.origin, destination: p.destination, kind: p.kind, pooling: p.pooling, flights: p.flights, derived: p.derived, drawsUsed: tables.draws };
+}
+
+/**
+ * Scores every trip. Throws a RangeError for invalid options, and an Error naming the leg when
+ * the posterior source has no posterior for one of its airports.
+ */
+export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options: ScoreOptions): ScoredTrips {
+  const settings = resolveScoreSettings(options);
+  const rules = options.mctRules ?? [];
+  const problems: Problem[] = [...parsed.problems];
+
+  // Which route posteriors are needed: arrivals of inbound and final legs, departures of outbound legs.
+  const routes = new Map<string, RouteSlot>();
+  const routeSlot = (leg: Leg, kind: 'arrival' | 'departure'): RouteSlot => {
+    const key = `${leg.from}-${leg.to}:${kind}`;
+    let slot = routes.get(key);
+    if (!slot) {
+      let posterior: RoutePosterior;
+      try {
+        posterior = source.route(leg.from, leg.to, kind);
+      } catch (err) {
+        throw new Error(`no ${kind} posterior for ${leg.flight} ${leg.from}-${leg.to} (line ${leg.line}): ${err instanceof Error ? err.message : String(err)}`);
+      }
+      slot = { posterior };
+      routes.set(key, slot);
+    }
+    return slot;
+  };
+  const isScored = (trip: Trip, k: number) => !(trip.connections[k]?.flags.includes('stopover') ?? true);
+  for (const trip of parsed.trips) {
+    const last = trip.legs[trip.legs.length - 1];
+    if (last) routeSlot(last, 'arrival');
+    trip.connections.forEach((c, k) => {
+      if (!isScored(trip, k)) return;
+      const inbound = trip.legs[c.inboundLeg];
+      const outbound = trip.legs[c.inboundLeg + 1];
+      if (inbound) routeSlot(inbound, 'arrival');
+      if (outbound) routeSlot(outbound, 'departure');
+    });
+  }
+  let draws = MAX_JOINT_DRAWS;
+  for (const slot of routes.values()) draws = Math.min(draws, slot.posterior.drawCount);
+  const tablesOf = (slot: RouteSlot): RouteTables => (slot.tables ??= new RouteTables(slot.posterior, draws));
+
+  const pairs = new Map<string, ConnectionPair>();
+  const pairOf = (inbound: Leg, outbound: Leg): ConnectionPair => {
+    const key = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}`;
+    let pair = pairs.get(key);
+    if (!pair) {
+      pair = new ConnectionPair(tablesOf(routeSlot(inbound, 'arrival')), tablesOf(routeSlot(outbound, 'departure')));
+      pairs.set(key, pair);
+    }
+    return pair;
+  };
+  const minLayovers = new Map<string, number | null>();
+
+  const unknownCountry = new Set<string>();
+  const countryOf = (code: string): string => {
+    const country = options.countryOf(code);
+    if (country) return country;
+    if (!unknownCountry.has(code)) {
+      unknownCountry.add(code);
+      problems.push({ line: 0, severity: 'warning', code: 'no-country', message: `no country known for airport ${code}: its connections are treated as international arrivals (the longest default MCT)` });
+    }
+    return `?${code}`;
+  };
+
+  // Flights for the simulation, one per unique flight.
+  const flightIndex = new Map<string, number>();
+  const flights: { key: string; arrival?: RouteTables; departure?: RouteTables }[] = [];
+  const flightOf = (leg: Leg, kind: 'arrival' | 'departure'): number => {
+    const key = flightKey(leg);
+    let index = flightIndex.get(key);
+    if (index === undefined) {
+      index = flights.length;
+      flightIndex.set(key, index);
+      flights.push({ key });
+    }
+    const flight = flights[index] as { key: string; arrival?: RouteTables; departure?: RouteTables };
+    flight[kind] ??= tablesOf(routeSlot(leg, kind));
+    return index;
+  };
+
+  const scoredConnections: ScoredConnection[][] = [];
+  const allMakeByDraw: Float64Array[] = [];
+  const simTrips: SimTrip[] = [];
+  for (const trip of parsed.trips) {
+    const rebookGap = options.rebookGapByTrip?.[trip.id] ?? settings.rebookGap;
+    const conns: ScoredConnection[] = [];
+    const simConns: SimConnection[] = [];
+    const allByDraw = new Float64Array(draws).fill(1);
+    trip.connections.forEach((c, k) => {
+      const inbound = trip.legs[c.inboundLeg] as Leg;
+      const outbound = trip.legs[c.inboundLeg + 1] as Leg;
+      const type = connectionType(countryOf(inbound.from), countryOf(inbound.to), countryOf(outbound.from), countryOf(outbound.to));
+      const mct = resolveMct(rules, c.airport, c.departAirport, type, settings.transferMinutes);
+      const flags: RiskFlag[] = [...c.flags];
+      const warnings: RiskWarning[] = [];
+      const base = {
+        ...c,
+        inboundFlight: inbound.flight,
+        outboundFlight: outbound.flight,
+        connectionType: type,
+        mctMinutes: mct.mctMinutes,
+        mctSource: mct.source,
+        transferMinutes: mct.transferMinutes,
+      };
+      if (!isScored(trip, k)) {
+        conns.push({ ...base, scored: false, pMake: null, pMakeInterval: null, minLayoverMinutes: null, marginMinutes: null, flags, warnings, inbound: null, outbound: null });
+        return;
+      }
+      const pair = pairOf(inbound, outbound);
+      const slack = c.layoverMinutes - mct.mctMinutes;
+      const byDraw = pair.drawProbabilities(slack);
+      for (let t = 0; t < draws; t++) allByDraw[t] = (allByDraw[t] ?? 0) * (byDraw[t] ?? 0);
+      const pMake = mean(byDraw);
+      const minKey = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}@${mct.mctMinutes}`;
+      let minLayover = minLayovers.get(minKey);
+      if (minLayover === undefined) {
+        minLayover = minimumLayover(pair, mct.mctMinutes, settings.target);
+        minLayovers.set(minKey, minLayover);
+      }
+      if (c.layoverMinutes < mct.mctMinutes && !flags.includes('below-mct')) flags.push('below-mct');
+      if (pMake < settings.target) flags.push('below-target');
+      if (minLayover === null) flags.push('target-unreachable');
+      const arrivalTables = pair.arrival;
+      const departureTables = pair.departure;
+      if (arrivalTables.posterior.pooling !== 'route' || departureTables.posterior.pooling !== 'route') flags.push('pooled-route');
+      warnings.push(...connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior));
+      conns.push({
+        ...base,
+        scored: true,
+        pMake,
+        pMakeInterval: centralInterval(byDraw, settings.intervalLevel),
+        minLayoverMinutes: minLayover,
+        marginMinutes: minLayover === null ? null : c.layoverMinutes - minLayover,
+        flags,
+        warnings,
+        inbound: evidence(arrivalTables),
+        outbound: evidence(departureTables),
+      });
+      simConns.push({ inbound: flightOf(inbound, 'arrival'), outbound: flightOf(outbound, 'departure'), slackMinutes: slack });
+    });
+    const last = trip.legs[trip.legs.length - 1] as Leg;
+    const deadlineMs = trip.deadlineUtc ? Date.parse(trip.deadlineUtc) : NaN;
+    simTrips.push({
+      connections: simConns,
+      lastFlight: flightOf(last, 'arrival'),
+      rebookGapMinutes: rebookGap,
+      deadlineSlackMinutes: Number.isFinite(deadlineMs) ? (deadlineMs - last.arriveUtcMs) / 60000 : null,
+    });
+    scoredConnections.push(conns);
+    allMakeByDraw.push(allByDraw);
+  }
+
+  const simFlights: SimFlight[] = flights;
+  const sims = simulateTrips(simFlights, simTrips, settings.simulations, draws, settings.seed);
+
+  const unranked = parsed.trips.map((trip, k) => {
+    const sim = sims[k];
+    const allByDraw = allMakeByDraw[k] as Float64Array;
+    const first = trip.legs[0] as Leg;
+    const last = trip.legs[trip.legs.length - 1] as Leg;
+    const hasDeadline = sim?.pByDeadline !== null && sim?.pByDeadline !== undefined;
+    return {
+      ...trip,
+      connections: scoredConnections[k] ?? [],
+      rebookGapMinutes: simTrips[k]?.rebookGapMinutes ?? settings.rebookGap,
+      pAllConnections: mean(allByDraw),
+      pAllConnectionsInterval: centralInterval(allByDraw, settings.intervalLevel),
+      expectedArrivalDelayMinutes: sim?.meanArrivalDelay ?? NaN,
+      arrivalDelayQuantilesMinutes: sim ? { p50: selectQuantile(sim.arrivalDelay, 0.5), p90: selectQuantile(sim.arrivalDelay, 0.9) } : { p50: NaN, p90: NaN },
+      pArriveByDeadline: sim?.pByDeadline ?? null,
+      pOnTime: hasDeadline ? (sim?.pByDeadline ?? NaN) : (sim?.pWithin15 ?? NaN),
+      onTimeBasis: hasDeadline ? ('deadline' as const) : ('within-15-minutes' as const),
+      travelMinutes: Math.round((last.arriveUtcMs - first.departUtcMs) / 60000),
+    };
+  });
+  const trips: ScoredTrip[] = rankOptions(unranked);
+  const group = summariseGroup(trips, sims, settings.simulations);
+  const overrides = rules.length;
+  return {
+    format: parsed.format,
+    trips,
+    problems,
+    target: settings.target,
+    intervalLevel: settings.intervalLevel,
+    seed: settings.seed,
+    simulations: settings.simulations,
+    bundle: { id: source.info.id, model: source.info.model, source: source.info.source },
+    mct: { source: overrides ? 'defaults+overrides' : 'defaults', overrides },
+    group,
+    caution: RISK_CAUTION,
+  };
+}
+
+function connectionWarnings(
+  flags: readonly RiskFlag[],
+  layover: number,
+  mct: number,
+  transfer: number,
+  arrival: RoutePosterior,
+  departure: RoutePosterior,
+): RiskWarning[] {
+  const out: RiskWarning[] = [];
+  if (flags.includes('separate-tickets')) {
+    out.push({
+      code: 'separate-tickets',
+      message:
+        'Separate tickets: if the first flight is late, the airline of the second need not rebook you, bags must be collected and checked in again, and extra time beyond the MCT is advised.',
+    });
+  }
+  if (flags.includes('airport-change')) {
+    out.push({ code: 'airport-change', message: `Airport change: the MCT includes a ground-transfer allowance of ${transfer} minutes; check the actual transfer time.` });
+  }
+  if (flags.includes('below-mct')) {
+    out.push({ code: 'below-mct', message: `The layover of ${layover} minutes is below the minimum connection time of ${mct} minutes used here.` });
+  }
+  for (const p of [arrival, departure]) {
+    if (p.pooling !== 'route') {
+      out.push({
+        code: 'pooled-route',
+        message: `${p.origin}-${p.destination} ${p.kind}s were not in the fit data; the estimate is pooled from ${p.pooling === 'airports' ? 'its airports' : 'all routes'}, so its interval is wider.`,
+      });
+    }
+  }
+  return out;
+}

@@ -1,0 +1,182 @@
+import logistic from '@stdlib/stats-base-dists-logistic';
+import { describe, expect, it } from 'vitest';
+import {
+  centralInterval,
+  ConnectionPair,
+  drawMakeProbability,
+  makeCurvePoints,
+  minimumLayover,
+  pMakeAtLayover,
+  pMakeIntervalAtLayover,
+  sortedQuantile,
+} from '../../../shared/risk/connection-probability';
+import { DrawTable, RouteTables } from '../../../shared/risk/delay-table';
+import { gumbelDelay, gumbelRoute } from '../../fixtures/risk/synthetic-source';
+import { createRng } from '../../../shared/inference/rng';
+
+function closeTo(actual: number, expected: number, tol: number, what: string): void {
+  if (!(Math.abs(actual - expected) <= tol)) {
+    throw new Error(`${what}: expected ${expected}, got ${actual}, |diff| ${Math.abs(actual - expected)} > tol ${tol}`);
+  }
+}
+
+// Draws with equal scale beta on both sides, and locations that vary across draws.
+function equalScalePair(muA: number, muD: number, beta: number, draws: number, seed = 3) {
+  const rng = createRng(seed);
+  const a: { mu: number; beta: number }[] = [];
+  const d: { mu: number; beta: number }[] = [];
+  for (let s = 0; s < draws; s++) {
+    a.push({ mu: muA + 3 * rng.normal(), beta });
+    d.push({ mu: muD + 1.5 * rng.normal(), beta });
+  }
+  const pair = new ConnectionPair(new RouteTables(gumbelRoute('ORD', 'DEN', 'arrival', a), draws), new RouteTables(gumbelRoute('DEN', 'SFO', 'departure', d), draws));
+  return { pair, a, d };
+}
+
+describe('drawMakeProbability', () => {
+  // Reference: A, D ~ Gumbel with equal scale beta => A - D ~ Logistic(muA - muD, beta), a standard
+  // result on differences of Gumbel variables; CDF from @stdlib/stats-base-dists-logistic.
+  it.each([
+    { muA: 5, muD: 2, beta: 12 },
+    { muA: 20, muD: 0, beta: 25 },
+    { muA: -3, muD: 8, beta: 6 },
+    { muA: 0, muD: 0, beta: 40 },
+  ])('matches the logistic closed form for Gumbel(%o) inbound and outbound (@stdlib/stats-base-dists-logistic)', ({ muA, muD, beta }) => {
+    const arr = new DrawTable(gumbelDelay(muA, beta), "cdf");
+    const dep = new DrawTable(gumbelDelay(muD, beta), "density");
+    for (const m of [-60, -20, -5, 0, 3, 15, 30, 60, 120, 300]) {
+      const expected = logistic.cdf(m, muA - muD, beta);
+      closeTo(drawMakeProbability(arr, dep, m), expected, 1e-5, `m=${m}, muA=${muA}, muD=${muD}, beta=${beta}`);
+    }
+  });
+});
+
+describe('ConnectionPair', () => {
+  it('averages the closed form over posterior draws (@stdlib/stats-base-dists-logistic)', () => {
+    const { pair, a, d } = equalScalePair(8, 3, 15, 40);
+    for (const layover of [40, 55, 75, 120]) {
+      const m = layover - 45;
+      let expected = 0;
+      for (let s = 0; s < 40; s++) expected += logistic.cdf(m, a[s]!.mu - d[s]!.mu, 15) / 40;
+      closeTo(pMakeAtLayover(pair, layover, 45), expected, 1e-5, `layover ${layover}`);
+    }
+  });
+});
+
+// A heavier-tailed posterior, like a typical-plus-disrupted mixture, built from committed Gumbel pieces.
+function mixtureTables(kind: 'arrival' | 'departure', seed: number) {
+  const rng = createRng(seed);
+  const draws = Array.from({ length: 30 }, () => ({ mu: 2 + 2 * rng.normal(), beta: 11 * Math.exp(0.1 * rng.normal()), wide: 50 + 10 * rng.uniform(), w: 0.05 + 0.1 * rng.uniform() }));
+  const route = {
+    origin: 'FRA',
+    destination: 'LHR',
+    kind,
+    pooling: 'route' as const,
+    flights: 10,
+    derived: false,
+    drawCount: draws.length,
+    draw: (s: number) => {
+      const p = draws[s]!;
+      const a = gumbelDelay(p.mu, p.beta);
+      const b = gumbelDelay(30, p.wide);
+      return {
+        cdf: (x: number) => (1 - p.w) * a.cdf(x) + p.w * b.cdf(x),
+        survival: (x: number) => (1 - p.w) * a.survival(x) + p.w * b.survival(x),
+        pdf: (x: number) => (1 - p.w) * a.pdf(x) + p.w * b.pdf(x),
+        sample: (r: ReturnType<typeof createRng>) => (r.uniform() < p.w ? b.sample(r) : a.sample(r)),
+      };
+    },
+  };
+  return new RouteTables(route, draws.length);
+}
+
+describe('monotonicity and the minimum layover', () => {
+  const pairs = {
+    gumbel: equalScalePair(8, 3, 15, 40).pair,
+    'heavy-tailed mixture': new ConnectionPair(mixtureTables('arrival', 11), mixtureTables('departure', 12)),
+  };
+
+  it.each(Object.entries(pairs))('never lowers P(make) when the layover grows (%s)', (_name, pair) => {
+    let previous = -1;
+    for (let layover = 0; layover <= 900; layover++) {
+      const p = pMakeAtLayover(pair, layover, 45);
+      expect(p).toBeGreaterThanOrEqual(previous);
+      expect(p).toBeLessThanOrEqual(1);
+      previous = p;
+    }
+  });
+
+  it.each(Object.entries(pairs))('gives P >= target at the minimum layover and P < target one minute less (%s)', (_name, pair) => {
+    for (const target of [0.5, 0.8, 0.9, 0.95, 0.99]) {
+      for (const mct of [30, 45, 90]) {
+        const min = minimumLayover(pair, mct, target);
+        expect(min, `target ${target}, MCT ${mct}`).not.toBeNull();
+        expect(pMakeAtLayover(pair, min!, mct)).toBeGreaterThanOrEqual(target);
+        if (min! > 0) expect(pMakeAtLayover(pair, min! - 1, mct)).toBeLessThan(target);
+      }
+    }
+  });
+
+  it('returns 0 when even no layover reaches the target, and null when no layover up to a day does', () => {
+    const early = new ConnectionPair(
+      new RouteTables(gumbelRoute('ORD', 'DEN', 'arrival', [{ mu: -200, beta: 5 }]), 1),
+      new RouteTables(gumbelRoute('DEN', 'SFO', 'departure', [{ mu: 0, beta: 5 }]), 1),
+    );
+    expect(minimumLayover(early, 45, 0.9)).toBe(0);
+    const hopeless = new ConnectionPair(
+      new RouteTables(gumbelRoute('ORD', 'DEN', 'arrival', [{ mu: 3000, beta: 5 }]), 1),
+      new RouteTables(gumbelRoute('DEN', 'SFO', 'departure', [{ mu: 0, beta: 5 }]), 1),
+    );
+    expect(minimumLayover(hopeless, 45, 0.9)).toBeNull();
+  });
+
+  it('rejects a target outside (0, 1)', () => {
+    expect(() => minimumLayover(pairs.gumbel, 45, 1)).toThrow(RangeError);
+    expect(() => minimumLayover(pairs.gumbel, 45, Number.NaN)).toThrow(RangeError);
+  });
+});
+
+describe('credible intervals', () => {
+  it('widen with parameter uncertainty and hold the predictive mean', () => {
+    const { pair } = equalScalePair(8, 3, 15, 40);
+    const [lo, hi] = pMakeIntervalAtLayover(pair, 70, 45, 0.9);
+    const p = pMakeAtLayover(pair, 70, 45);
+    expect(lo).toBeLessThan(p);
+    expect(hi).toBeGreaterThan(p);
+    const certain = new ConnectionPair(
+      new RouteTables(gumbelRoute('ORD', 'DEN', 'arrival', Array.from({ length: 20 }, () => ({ mu: 8, beta: 15 }))), 20),
+      new RouteTables(gumbelRoute('DEN', 'SFO', 'departure', Array.from({ length: 20 }, () => ({ mu: 3, beta: 15 }))), 20),
+    );
+    const [clo, chi] = pMakeIntervalAtLayover(certain, 70, 45, 0.9);
+    expect(chi - clo).toBeLessThan(1e-12);
+    expect(hi - lo).toBeGreaterThan(0.02);
+  });
+
+  // Hyndman & Fan (1996) definition 7 is R's quantile(type = 7) default; values from its formula.
+  it('uses quantile definition 7 (as R type 7)', () => {
+    expect(sortedQuantile([1, 2, 3, 4, 5], 0.05)).toBeCloseTo(1.2, 12);
+    expect(sortedQuantile([1, 2, 3, 4, 5], 0.95)).toBeCloseTo(4.8, 12);
+    expect(centralInterval([5, 1, 4, 2, 3], 0.5)).toEqual([2, 4]);
+    expect(centralInterval([1, Number.NaN], 0.5)).toEqual([Number.NaN, Number.NaN]);
+    expect(() => centralInterval([1], 1)).toThrow(RangeError);
+  });
+});
+
+describe('makeCurvePoints', () => {
+  it('charts P(make) with a band that contains it', () => {
+    const { pair } = equalScalePair(8, 3, 15, 40);
+    const points = makeCurvePoints(pair, { mctMinutes: 45, intervalLevel: 0.9, fromMinutes: 30, toMinutes: 120, stepMinutes: 5 });
+    expect(points).toHaveLength(19);
+    for (const p of points) {
+      expect(p.lo).toBeLessThanOrEqual(p.pMake);
+      expect(p.hi).toBeGreaterThanOrEqual(p.pMake);
+      expect(p.pMake).toBe(pMakeAtLayover(pair, p.layoverMinutes, 45));
+    }
+  });
+
+  it('rejects a fractional margin', () => {
+    const { pair } = equalScalePair(8, 3, 15, 4);
+    expect(() => pair.drawProbabilities(1.5)).toThrow(RangeError);
+    expect(Number.isNaN(pair.probability(Number.NaN))).toBe(true);
+  });
+});
