@@ -1,4 +1,5 @@
 // The table of subcommands. Each lives in its own file under commands/.
 import type { CliCommand } from './command';
+import { parseCommand } from './commands/parse';
 
-export const commands: readonly CliCommand[] = [];
+export const commands: readonly CliCommand[] = [parseCommand];

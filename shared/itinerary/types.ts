@@ -12,6 +12,8 @@ export interface Problem {
   /** Stable machine-readable code, e.g. 'unknown-airport', 'dst-gap'. */
   readonly code: string;
   readonly message: string;
+  /** The original input line (for .ics: the event's first line), kept so the user can correct it. */
+  readonly text?: string;
 }
 
 export interface Leg {
@@ -70,4 +72,10 @@ export interface ParsedTrips {
   readonly format: 'csv' | 'tsv' | 'text' | 'ics' | 'empty';
   readonly trips: readonly Trip[];
   readonly problems: readonly Problem[];
+  /**
+   * Lines read as context rather than as legs: a table's header, a date or "Passenger:" line in
+   * free text, the continuation of a quoted multi-line cell, the structure of a calendar file.
+   * Every non-blank input line is a leg's line, a problem's line, or one of these.
+   */
+  readonly contextLines?: readonly number[];
 }

@@ -1,0 +1,156 @@
+// Groups normalised legs into trips (traveler + trip + option, in time order) and derives the
+// connections between consecutive legs with their flags, and each trip's deadline.
+//
+// Layover = next departure instant − arrival instant, in whole minutes; over 24 h is a stopover.
+import { findAirport } from '../time/airports';
+import { formatOffset, formatUtc, formatWallTime, offsetChangesBetween, offsetMinutesAt, resolveLocalTime, wallTimeAt } from '../time/zones';
+import { addDays, parseLocalDateTime } from './local-time';
+import { instantOrProblem, LineProblems, makeProblem, type ReadLeg } from './normalise-leg';
+import type { Connection, ConnectionFlag, Leg, Problem, Trip } from './types';
+
+/** A gap longer than this between two legs is a stopover, not a connection (common practice, no source). */
+export const STOPOVER_MINUTES = 24 * 60;
+
+/** FNV-1a, 32 bit: a short stable id from the grouping key. */
+function fnv1a(text: string): string {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < text.length; i++) {
+    h ^= text.charCodeAt(i);
+    h = Math.imul(h, 0x01000193) >>> 0;
+  }
+  return h.toString(16).padStart(8, '0');
+}
+
+function localDate(local: string): string {
+  return local.slice(0, 10);
+}
+
+export function connectionBetween(inbound: Leg, outbound: Leg, inboundLeg: number): Connection {
+  const layoverMinutes = Math.round((outbound.departUtcMs - inbound.arriveUtcMs) / 60_000);
+  const flags: ConnectionFlag[] = [];
+  if (layoverMinutes < 0) flags.push('negative-layover');
+  if (layoverMinutes > STOPOVER_MINUTES) flags.push('stopover');
+  if (inbound.to !== outbound.from) flags.push('airport-change');
+  if (inbound.booking !== '' && outbound.booking !== '' && inbound.booking !== outbound.booking) flags.push('separate-tickets');
+  if (layoverMinutes >= 0 && localDate(inbound.arriveLocal) !== localDate(outbound.departLocal)) flags.push('overnight');
+  if (layoverMinutes > 0) {
+    const zones = new Set([inbound.toZone, outbound.fromZone]);
+    if ([...zones].some((z) => offsetChangesBetween(z, inbound.arriveUtcMs, outbound.departUtcMs).length > 0)) flags.push('dst-change-during-trip');
+  }
+  return { airport: inbound.to, departAirport: outbound.from, inboundLeg, layoverMinutes, flags };
+}
+
+interface Group {
+  readonly traveler: string;
+  readonly trip: string;
+  readonly option: string;
+  readonly members: ReadLeg[];
+}
+
+export function groupTrips(readLegs: readonly ReadLeg[], problems: Problem[]): Trip[] {
+  const groups = new Map<string, Group>();
+  for (const r of readLegs) {
+    const key = JSON.stringify([r.traveler, r.trip, r.option]);
+    let g = groups.get(key);
+    if (!g) {
+      g = { traveler: r.traveler, trip: r.trip, option: r.option, members: [] };
+      groups.set(key, g);
+    }
+    g.members.push(r);
+  }
+
+  const trips: Trip[] = [];
+  const usedIds = new Set<string>();
+  for (const [key, g] of groups) {
+    const sorted = [...g.members].sort((a, b) => a.leg.departUtcMs - b.leg.departUtcMs || a.leg.line - b.leg.line);
+    const members: ReadLeg[] = [];
+    const seen = new Map<string, ReadLeg>();
+    for (const m of sorted) {
+      const twinKey = `${m.leg.departUtcMs}|${m.leg.from}|${m.leg.flight}`;
+      const twin = seen.get(twinKey);
+      if (twin) {
+        problems.push(makeProblem(m.leg.line, 'warning', 'duplicate-leg', `the same flight as line ${twin.leg.line} (${m.leg.flight || 'no flight number'} ${m.leg.from} ${m.leg.departLocal}); counted once`, m.text));
+        continue;
+      }
+      seen.set(twinKey, m);
+      members.push(m);
+    }
+    const legs = members.map((m) => m.leg);
+    const connections: Connection[] = [];
+    for (let i = 0; i + 1 < legs.length; i++) {
+      const inbound = legs[i];
+      const outbound = legs[i + 1];
+      if (!inbound || !outbound) continue;
+      const c = connectionBetween(inbound, outbound, i);
+      if (c.flags.includes('negative-layover')) {
+        problems.push(
+          makeProblem(
+            outbound.line,
+            'error',
+            'negative-layover',
+            `${outbound.flight || 'this leg'} leaves ${outbound.from} at ${outbound.departLocal} (${outbound.departUtc}), ${-c.layoverMinutes} min before ${inbound.flight || 'the previous leg'} (line ${inbound.line}) arrives at ${inbound.to} at ${inbound.arriveLocal} (${inbound.arriveUtc})`,
+            members[i + 1]?.text,
+          ),
+        );
+      }
+      connections.push(c);
+    }
+    tripDstWarning(legs, members[0]?.text, problems);
+    const deadline = tripDeadline(members, legs, problems);
+
+    let id = `trip-${fnv1a(key)}`;
+    for (let n = 2; usedIds.has(id); n++) id = `trip-${fnv1a(key)}-${n}`;
+    usedIds.add(id);
+    trips.push({ id, traveler: g.traveler, trip: g.trip, option: g.option, legs, connections, deadlineLocal: deadline?.local ?? null, deadlineUtc: deadline?.utc ?? null });
+  }
+  return trips;
+}
+
+/** Warns once per trip when any of its airports changes clocks between first departure and last arrival. */
+function tripDstWarning(legs: readonly Leg[], text: string | undefined, problems: Problem[]): void {
+  const first = legs[0];
+  const last = legs[legs.length - 1];
+  if (!first || !last) return;
+  const end = Math.max(...legs.map((l) => l.arriveUtcMs));
+  const seen: string[] = [];
+  for (const zone of new Set(legs.flatMap((l) => [l.fromZone, l.toZone]))) {
+    for (const t of offsetChangesBetween(zone, first.departUtcMs, end)) {
+      seen.push(`${zone} changes from ${formatOffset(offsetMinutesAt(zone, t - 60_000))} to ${formatOffset(offsetMinutesAt(zone, t))} at ${formatUtc(t)}`);
+    }
+  }
+  if (seen.length) {
+    problems.push(makeProblem(first.line, 'warning', 'dst-change-during-trip', `clocks change during this trip: ${seen.join('; ')}; local times before and after use different UTC offsets`, text));
+  }
+}
+
+function tripDeadline(members: readonly ReadLeg[], legs: readonly Leg[], problems: Problem[]): { local: string; utc: string } | null {
+  const withDeadline = members.filter((m) => m.deadline.trim() !== '');
+  const last = legs[legs.length - 1];
+  const first = withDeadline[0];
+  if (!first || !last) return null;
+  for (const m of withDeadline) {
+    if (m.deadline.trim() !== first.deadline.trim()) {
+      problems.push(makeProblem(m.leg.line, 'warning', 'deadline-conflict', `deadline '${m.deadline.trim()}' differs from '${first.deadline.trim()}' on line ${first.leg.line}; used line ${first.leg.line}'s`, m.text));
+    }
+  }
+  const p = new LineProblems(first.leg.line, first.text);
+  const destination = findAirport(last.to);
+  const parsed = parseLocalDateTime(first.deadline);
+  if (!destination) return null;
+  if (!parsed.ok) {
+    p.error('invalid-deadline', `deadline: ${parsed.message}`);
+    problems.push(...p.list);
+    return null;
+  }
+  const arrivalWall = wallTimeAt(destination.zone, last.arriveUtcMs);
+  const arrivalDate = arrivalWall ? { year: arrivalWall.year, month: arrivalWall.month, day: arrivalWall.day } : null;
+  const date = parsed.value.date ?? (arrivalDate ? addDays(arrivalDate, parsed.value.dayOffset ?? 0) : null);
+  if (!date) return null;
+  const w = { ...date, ...parsed.value.time };
+  const utcMs = instantOrProblem(resolveLocalTime(destination.zone, w), w, destination.zone, `deadline at ${destination.iata}`, p);
+  if (utcMs !== null && utcMs < last.arriveUtcMs) {
+    p.warn('deadline-before-arrival', `the trip arrives at ${destination.iata} at ${last.arriveLocal}, after its deadline ${formatWallTime(w)}`);
+  }
+  problems.push(...p.list);
+  return utcMs === null ? null : { local: formatWallTime(w), utc: formatUtc(utcMs) };
+}
