@@ -454,6 +454,43 @@ function positiveInt(name: string, value: number, min: number): number {
   return value;
 }
 
+/** Per-coordinate mean, sd, R-hat and bulk / tail ESS of draws laid out [chain][draw][coordinate]. */
+export function summariseSamples(samples: Float64Array, chains: number, drawsPerChain: number, dim: number) {
+  const total = chains * drawsPerChain;
+  const mean = new Float64Array(dim);
+  const sd = new Float64Array(dim);
+  const rhat = new Float64Array(dim);
+  const essBulk = new Float64Array(dim);
+  const essTail = new Float64Array(dim);
+  const column = new Float64Array(total);
+  for (let i = 0; i < dim; i++) {
+    let m = 0;
+    for (let k = 0; k < total; k++) {
+      const x = samples[k * dim + i]!;
+      column[k] = x;
+      m += x;
+    }
+    m /= total;
+    let v = 0;
+    for (let k = 0; k < total; k++) v += (column[k]! - m) ** 2;
+    mean[i] = m;
+    sd[i] = Math.sqrt(v / (total - 1));
+    rhat[i] = splitRhat(column, chains);
+    essBulk[i] = effectiveSampleSizeBulk(column, chains);
+    essTail[i] = effectiveSampleSizeTail(column, chains);
+  }
+  return { mean, sd, rhat, essBulk, essTail };
+}
+
+/** The worst R-hat (NaN counts as Infinity) and the smallest ESS over coordinates. */
+export function convergenceSummary(rhat: Float64Array, essBulk: Float64Array, essTail: Float64Array): { maxRhat: number; minEssBulk: number; minEssTail: number } {
+  return {
+    maxRhat: rhat.reduce((a, b) => Math.max(a, Number.isNaN(b) ? Infinity : b), 0),
+    minEssBulk: essBulk.reduce((a, b) => Math.min(a, b), Infinity),
+    minEssTail: essTail.reduce((a, b) => Math.min(a, b), Infinity),
+  };
+}
+
 /**
  * Draws from the posterior of `model` with NUTS.
  *
@@ -562,34 +599,10 @@ export async function nuts(model: Model, options: NutsOptions): Promise<NutsResu
     throw new FitDivergedError('nuts', iteration, `${divergences} of ${totalDraws} kept transitions diverged (limit ${Math.round(maxDivergentFraction * 100)}%); the posterior has regions the sampler cannot explore`);
   }
 
-  const mean = new Float64Array(dim);
-  const sd = new Float64Array(dim);
-  const rhat = new Float64Array(dim);
-  const essBulk = new Float64Array(dim);
-  const essTail = new Float64Array(dim);
-  const column = new Float64Array(totalDraws);
-  for (let i = 0; i < dim; i++) {
-    let m = 0;
-    for (let k = 0; k < totalDraws; k++) {
-      const x = samples[k * dim + i]!;
-      column[k] = x;
-      m += x;
-    }
-    m /= totalDraws;
-    let v = 0;
-    for (let k = 0; k < totalDraws; k++) v += (column[k]! - m) ** 2;
-    mean[i] = m;
-    sd[i] = Math.sqrt(v / (totalDraws - 1));
-    rhat[i] = splitRhat(column, chains);
-    essBulk[i] = effectiveSampleSizeBulk(column, chains);
-    essTail[i] = effectiveSampleSizeTail(column, chains);
-  }
+  const { mean, sd, rhat, essBulk, essTail } = summariseSamples(samples, chains, drawsPerChain, dim);
   let lpMean = 0;
   for (let k = 0; k < totalDraws; k++) lpMean += logDensity[k]!;
   lpMean /= totalDraws;
-  const maxRhat = rhat.reduce((a, b) => Math.max(a, Number.isNaN(b) ? Infinity : b), 0);
-  const minEssBulk = essBulk.reduce((a, b) => Math.min(a, b), Infinity);
-  const minEssTail = essTail.reduce((a, b) => Math.min(a, b), Infinity);
   const elapsedMs = loop.finish(iteration, lpMean);
   const saturatedTotal = chainStats.reduce((s, c) => s + c.treeDepthSaturated, 0);
 
@@ -599,7 +612,7 @@ export async function nuts(model: Model, options: NutsOptions): Promise<NutsResu
     iterations: iteration,
     elapsedMs,
     // Vehtari et al. (2021) recommend R-hat < 1.01 before trusting the draws.
-    converged: maxRhat < 1.01 && divergences === 0,
+    converged: convergenceSummary(rhat, essBulk, essTail).maxRhat < 1.01 && divergences === 0,
     objective: lpMean,
     mean,
     sd,
@@ -632,9 +645,7 @@ export async function nuts(model: Model, options: NutsOptions): Promise<NutsResu
       meanAcceptStat: chainStats.reduce((s, c) => s + c.meanAcceptStat, 0) / chains,
       stepSize: chainStats.reduce((s, c) => s + c.stepSize, 0) / chains,
       gradientEvaluations: chainStats.reduce((s, c) => s + c.gradientEvaluations, 0),
-      maxRhat,
-      minEssBulk,
-      minEssTail,
+      ...convergenceSummary(rhat, essBulk, essTail),
     },
   };
 }

@@ -142,14 +142,15 @@ export function paretoKThreshold(draws: number): number {
   return Math.min(1 - 1 / Math.log10(draws), 0.7);
 }
 
-/** A Gaussian approximation in unconstrained space: diagonal (sd) or full (lower Cholesky factor). */
-export type GaussianApproximation =
-  | { readonly mean: Float64Array; readonly sd: Float64Array }
-  | { readonly mean: Float64Array; readonly cholesky: Float64Array };
+/** What PSIS needs from an approximation: draws from it and its normalised log density (FitResult of VI). */
+export interface Approximation {
+  draws(rng: Rng, count: number): Float64Array;
+  logApproxDensity(theta: Float64Array): number;
+}
 
 export interface VariationalCheck {
   readonly k: number;
-  /** 'good' below 0.5, 'ok' up to the threshold, 'unreliable' above (Yao et al. 2018). */
+  /** 'good' below 0.5, 'ok' up to the sample-size threshold, 'unreliable' above (Yao et al. 2018). */
   readonly verdict: 'good' | 'ok' | 'unreliable';
   readonly draws: number;
   /** Draws at which the model's log density was not finite (weight 0). */
@@ -157,42 +158,22 @@ export interface VariationalCheck {
 }
 
 /**
- * Checks a Gaussian variational approximation with PSIS: draws from q, weights them by
- * p / q with the model's exact (unnormalised) log density, and reports k-hat.
- * Throws RangeError when the approximation's shape does not match model.dim.
+ * Checks a variational approximation q with PSIS: draws from q, weights them by p / q with
+ * the model's exact (unnormalised) log density, and reports k-hat. The verdict is
+ * 'unreliable' when k-hat is NaN. Throws RangeError when the draws do not match model.dim.
  */
-export function checkVariationalFit(model: Model, q: GaussianApproximation, rng: Rng, draws = 1000): VariationalCheck {
+export function checkVariationalFit(model: Model, q: Approximation, rng: Rng, draws = 1000): VariationalCheck {
   const dim = model.dim;
-  if (q.mean.length !== dim) throw new RangeError(`approximation mean has length ${q.mean.length}, model.dim is ${dim}`);
-  const full = 'cholesky' in q;
-  if (full ? q.cholesky.length !== dim * dim : q.sd.length !== dim) throw new RangeError('approximation scale does not match model.dim');
-  let logDet = 0;
-  for (let i = 0; i < dim; i++) {
-    const s = full ? q.cholesky[i * dim + i]! : q.sd[i]!;
-    if (!(s > 0)) throw new RangeError(`approximation scale ${i} is not positive`);
-    logDet += Math.log(s);
-  }
-  const z = new Float64Array(dim);
-  const theta = new Float64Array(dim);
+  const thetas = q.draws(rng, draws);
+  if (thetas.length !== draws * dim) throw new RangeError(`the approximation gave ${thetas.length} values for ${draws} draws of dimension ${dim}`);
   const grad = new Float64Array(dim);
   const logWeights = new Float64Array(draws);
-  const halfLog2Pi = 0.5 * Math.log(2 * Math.PI);
   let nonFinite = 0;
   for (let s = 0; s < draws; s++) {
-    let zz = 0;
-    for (let i = 0; i < dim; i++) {
-      z[i] = rng.normal();
-      zz += z[i]! * z[i]!;
-    }
-    for (let i = 0; i < dim; i++) {
-      let v = q.mean[i]!;
-      if (full) for (let j = 0; j <= i; j++) v += q.cholesky[i * dim + j]! * z[j]!;
-      else v += q.sd[i]! * z[i]!;
-      theta[i] = v;
-    }
-    const logQ = -logDet - dim * halfLog2Pi - 0.5 * zz;
+    const theta = thetas.subarray(s * dim, (s + 1) * dim);
     const logP = model.logDensityGrad(theta, grad);
-    if (Number.isFinite(logP)) logWeights[s] = logP - logQ;
+    const logQ = q.logApproxDensity(theta);
+    if (Number.isFinite(logP) && Number.isFinite(logQ)) logWeights[s] = logP - logQ;
     else {
       logWeights[s] = -Infinity;
       nonFinite++;

@@ -79,20 +79,43 @@ function correlatedGaussian(rho: number): Model {
   };
 }
 
+// A bivariate Gaussian approximation N(0, L L^T), L lower-triangular 2 x 2 (row-major).
+function gaussian2(l: [number, number, number]) {
+  const [a, b, c] = l;
+  return {
+    draws(rng: ReturnType<typeof createRng>, count: number) {
+      const out = new Float64Array(2 * count);
+      for (let s = 0; s < count; s++) {
+        const z0 = rng.normal();
+        const z1 = rng.normal();
+        out[2 * s] = a * z0;
+        out[2 * s + 1] = b * z0 + c * z1;
+      }
+      return out;
+    },
+    logApproxDensity(t: Float64Array) {
+      const z0 = t[0]! / a;
+      const z1 = (t[1]! - b * z0) / c;
+      return -Math.log(a * c) - Math.log(2 * Math.PI) - 0.5 * (z0 * z0 + z1 * z1);
+    },
+  };
+}
+
 describe('checkVariationalFit (Yao et al. 2018)', () => {
   it('calls the exact full-rank Gaussian good and a mean-field fit of a rho = 0.95 posterior unreliable', () => {
     const rho = 0.95;
     const model = correlatedGaussian(rho);
-    const exact = checkVariationalFit(model, { mean: new Float64Array(2), cholesky: Float64Array.from([1, 0, rho, Math.sqrt(1 - rho * rho)]) }, createRng(1), 2000);
+    const exact = checkVariationalFit(model, gaussian2([1, rho, Math.sqrt(1 - rho * rho)]), createRng(1), 2000);
     expect(exact.verdict).toBe('good');
     // The mean-field optimum for a Gaussian has sd = sqrt(1 - rho^2): too narrow.
     const narrow = Math.sqrt(1 - rho * rho);
-    const meanField = checkVariationalFit(model, { mean: new Float64Array(2), sd: Float64Array.from([narrow, narrow]) }, createRng(1), 2000);
+    const meanField = checkVariationalFit(model, gaussian2([narrow, 0, narrow]), createRng(1), 2000);
     expect(meanField.k).toBeGreaterThan(0.7);
     expect(meanField.verdict).toBe('unreliable');
   });
 
-  it('rejects an approximation of the wrong size', () => {
-    expect(() => checkVariationalFit(correlatedGaussian(0), { mean: new Float64Array(3), sd: new Float64Array(3).fill(1) }, createRng(1))).toThrow(RangeError);
+  it('rejects draws of the wrong size', () => {
+    const wrong = { draws: (_r: unknown, n: number) => new Float64Array(3 * n), logApproxDensity: () => 0 };
+    expect(() => checkVariationalFit(correlatedGaussian(0), wrong, createRng(1))).toThrow(RangeError);
   });
 });
