@@ -7,6 +7,7 @@ import { BrowserWindow, type BrowserWindowConstructorOptions, type PrintToPDFOpt
 import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { mainWindowOptions } from '../electron/window-options';
 import { EMPTY_HEADER_TEMPLATE, PRINT_MARGINS_MM, pageFooterTemplate, type PaperSize } from '../../shared/report/print-layout';
 
 const MM_PER_INCH = 25.4;
@@ -33,28 +34,14 @@ export function electronPdfOptions(paper: PaperSize, title: string): PrintToPDFO
 }
 
 /**
- * The hidden window a report is printed in: no script, no preload, sandboxed.
+ * The hidden window a report is printed in: the app window's isolation settings, with no
+ * preload and no script.
  *
  * The report is static HTML and SVG, so JavaScript stays off; it carries pasted traveler data.
  */
 export function printWindowOptions(): BrowserWindowConstructorOptions {
-  return {
-    show: false,
-    width: 900,
-    height: 1200,
-    webPreferences: {
-      javascript: false,
-      contextIsolation: true,
-      sandbox: true,
-      nodeIntegration: false,
-      nodeIntegrationInWorker: false,
-      nodeIntegrationInSubFrames: false,
-      webSecurity: true,
-      allowRunningInsecureContent: false,
-      webviewTag: false,
-      spellcheck: false,
-    },
-  };
+  const { preload: _noPreload, ...isolation } = mainWindowOptions('').webPreferences ?? {};
+  return { show: false, width: 900, height: 1200, webPreferences: { ...isolation, javascript: false } };
 }
 
 /** The part of Electron this module needs, injectable so tests can run without Electron. */

@@ -1,11 +1,18 @@
-// The connections CSV: one row per connection, with the same fields as the JSON of
-// `layline score` (ScoredConnection, plus the trip it belongs to), and its exact reverse.
+// The connections CSV: one row per connection, with the same fields as each connection in
+// the JSON of `layline score` (plus the trip it belongs to and its place in the trip), and
+// its exact reverse.
 //
 // RFC 4180 format (CRLF line ends, quoted fields where needed). Numbers are written as
 // JavaScript's shortest round-trip form, the same digits JSON.stringify writes, so a row
-// parses back to the identical value.
+// parses back to the identical value. Nested JSON values are flattened: pMakeInterval into
+// Lo/Hi, the route evidence into prefixed columns, lists into ';'-separated cells.
 import type { DelayKind, PoolingLevel } from '../delay/predictive';
+import { CONNECTION_TYPES } from '../risk/mct';
+import { csvCell } from '../risk/score-format';
 import type { ConnectionType, MctSource, RiskFlag, RiskWarning, RouteEvidence, ScoredConnection, ScoredTrip, ScoredTrips } from '../risk/types';
+
+/** A connection as `layline score --format json` prints it (the leg index is the row's connectionIndex). */
+export type ScoredConnectionJson = Omit<ScoredConnection, 'inboundLeg'>;
 
 /** The header, in column order. */
 export const CONNECTION_CSV_COLUMNS = [
@@ -16,7 +23,6 @@ export const CONNECTION_CSV_COLUMNS = [
   'connectionIndex',
   'airport',
   'departAirport',
-  'inboundLeg',
   'inboundFlight',
   'outboundFlight',
   'layoverMinutes',
@@ -63,10 +69,6 @@ function unguardText(text: string): string {
   return /^'[=+\-@\t\r]/.test(text) ? text.slice(1) : text;
 }
 
-function quote(cell: string): string {
-  return /[",\r\n]|^\s|\s$/.test(cell) ? `"${cell.replace(/"/g, '""')}"` : cell;
-}
-
 const num = (n: number | null): string => (n === null ? '' : String(n));
 
 function evidenceCells(e: RouteEvidence | null): string[] {
@@ -83,7 +85,6 @@ function rowCells(trip: ScoredTrip, c: ScoredConnection, index: number): string[
     String(index),
     c.airport,
     c.departAirport,
-    String(c.inboundLeg),
     guardText(c.inboundFlight),
     guardText(c.outboundFlight),
     String(c.layoverMinutes),
@@ -108,11 +109,10 @@ function rowCells(trip: ScoredTrip, c: ScoredConnection, index: number): string[
 /** The connections of every scored trip as CSV text, header first, CRLF line ends. */
 export function connectionsCsv(scored: ScoredTrips): string {
   const lines = [CONNECTION_CSV_COLUMNS.join(',')];
-  for (const trip of scored.trips) trip.connections.forEach((c, i) => lines.push(rowCells(trip, c, i).map(quote).join(',')));
+  for (const trip of scored.trips) trip.connections.forEach((c, i) => lines.push(rowCells(trip, c, i).map(csvCell).join(',')));
   return lines.join('\r\n') + '\r\n';
 }
 
-const CONNECTION_TYPES: readonly ConnectionType[] = ['domestic', 'international', 'international-arrival', 'international-departure'];
 const MCT_SOURCES: readonly MctSource[] = ['default', 'override'];
 const DELAY_KINDS: readonly DelayKind[] = ['arrival', 'departure'];
 const POOLING_LEVELS: readonly PoolingLevel[] = ['route', 'airports', 'population'];
@@ -124,7 +124,7 @@ export interface ConnectionCsvRecord {
   readonly trip: string;
   readonly option: string;
   readonly connectionIndex: number;
-  readonly connection: ScoredConnection;
+  readonly connection: ScoredConnectionJson;
 }
 
 /** Thrown when a row cannot be a connection row; names the column and the value. */
@@ -183,10 +183,9 @@ export function connectionFromCsvRecord(cells: Readonly<Record<string, string>>)
   const warnings: RiskWarning[] = codes.map((code, i) => ({ code, message: messages[i] ?? '' }));
   const lo = nullableNumber('pMakeIntervalLo');
   const hi = nullableNumber('pMakeIntervalHi');
-  const connection: ScoredConnection = {
+  const connection: ScoredConnectionJson = {
     airport: get('airport'),
     departAirport: get('departAirport'),
-    inboundLeg: number('inboundLeg'),
     layoverMinutes: number('layoverMinutes'),
     inboundFlight: unguardText(get('inboundFlight')),
     outboundFlight: unguardText(get('outboundFlight')),

@@ -56,6 +56,7 @@ describe('printReportInElectron', () => {
     const [w] = windows;
     expect(w?.options).toEqual(printWindowOptions());
     expect(w?.options).toMatchObject({ show: false, webPreferences: { javascript: false, sandbox: true, contextIsolation: true, nodeIntegration: false } });
+    expect((w?.options as { webPreferences: object }).webPreferences).not.toHaveProperty('preload');
     expect(w?.loadedHtml).toBe('<!doctype html><p>Report</p>');
     expect(w?.printOptions).toEqual(electronPdfOptions('A4', 'Connection risk report'));
   });
