@@ -43,10 +43,21 @@ function legs(trip: ScoredTrip): BriefingLeg[] {
   });
 }
 
+/** A connection the traveler must watch: below the target, or unprotected on separate tickets. */
+function watchesConnection(c: ScoredConnection & { readonly pMake: number }, target: number): boolean {
+  return c.pMake < target || c.flags.includes('separate-tickets');
+}
+
+/** The connection to watch: one below the target or on separate tickets first, then the tightest. */
+function connectionToWatch(trip: ScoredTrip, target: number): (ScoredConnection & { readonly pMake: number }) | undefined {
+  const rank = (c: ScoredConnection & { readonly pMake: number }) => (watchesConnection(c, target) ? 0 : 1);
+  return [...scoredConnections(trip)].sort((a, b) => rank(a) - rank(b) || a.pMake - b.pMake)[0];
+}
+
 function watchSection(trip: ScoredTrip, target: number): Briefing['watch'] {
   const scored = scoredConnections(trip);
   if (trip.connections.length === 0) return { heading: 'No connection on this trip', why: ['Your flight is nonstop: there is no connection to make.'] };
-  const tightest = [...scored].sort((a, b) => a.pMake - b.pMake)[0];
+  const tightest = connectionToWatch(trip, target);
   if (!tightest) return { heading: 'No connection to watch', why: ['Your flights are more than a day apart, so no connection is at risk.'] };
   const place = placeName(tightest.airport);
   const why: string[] = [];
@@ -64,12 +75,11 @@ function watchSection(trip: ScoredTrip, target: number): Briefing['watch'] {
   }
   if (tightest.flags.includes('separate-tickets')) why.push('Your two flights are on separate tickets, so the second airline will not wait for you or rebook you.');
   if (tightest.airport !== tightest.departAirport) why.push(`You also change airports, from ${place} to ${placeName(tightest.departAirport)}, which takes time.`);
-  const heading =
-    tightest.pMake >= target && scored.length > 1
+  const heading = watchesConnection(tightest, target)
+    ? `Watch your connection at ${place}`
+    : scored.length > 1
       ? `All your connections have time to spare; the tightest is at ${place}`
-      : tightest.pMake >= target
-        ? `Your connection at ${place} has time to spare`
-        : `Watch your connection at ${place}`;
+      : `Your connection at ${place} has time to spare`;
   return { heading, why };
 }
 
@@ -115,7 +125,7 @@ function briefing(trip: ScoredTrip, target: number): Briefing {
   const first = trip.legs[0];
   const last = trip.legs[trip.legs.length - 1];
   const connections: BriefingConnection[] = [];
-  const tightest = [...scoredConnections(trip)].sort((a, b) => a.pMake - b.pMake)[0];
+  const tightest = connectionToWatch(trip, target);
   for (const c of trip.connections) {
     connections.push({
       place: placeName(c.airport),
@@ -123,7 +133,7 @@ function briefing(trip: ScoredTrip, target: number): Briefing {
       layover: formatMinutes(c.layoverMinutes),
       chance: c.scored && c.pMake !== null ? chanceSentence(c.pMake, target) : 'A stopover, not a connection: you have more than a day here.',
       notes: connectionNotes(c),
-      mark: tightest !== c ? '' : tightest.pMake < target ? 'watch' : 'tightest',
+      mark: tightest !== c ? '' : watchesConnection(tightest, target) ? 'watch' : 'tightest',
     });
   }
   const overview =

@@ -115,7 +115,7 @@ function keyPoints(scored: ScoredTrips, counted: readonly ScoredTrip[]): string[
   if (worst) {
     points.push(
       `The riskiest connection is ${worst.trip.traveler}'s at ${placeName(worst.c.airport)} (${connectionFlights(worst.c)}): ` +
-        `a ${formatMinutes(worst.c.layoverMinutes)} layover that ${missSentence(worst.c.pMake)}.`,
+        `with a ${formatMinutes(worst.c.layoverMinutes)} layover, ${missSentence(worst.c.pMake)}.`,
     );
   }
   const shared = scored.group.topConnections.find((t) => t.travelers > 1);
@@ -141,9 +141,43 @@ function keyPoints(scored: ScoredTrips, counted: readonly ScoredTrip[]): string[
   return points;
 }
 
-function connectionRecommendations(trip: ScoredTrip, c: ScoredConnection & { readonly pMake: number }, target: number): Recommendation[] {
+/** "Ines Calloway" for one trip; "Ines Calloway, Tobias Wren and 3 more (5 travelers) · Harbor Week" for several. */
+function whoText(trips: readonly ScoredTrip[]): string {
+  const [first] = trips;
+  if (!first) return '';
+  if (trips.length === 1) return tripLabel(first);
+  const names = trips.map((t) => (t.optionCount > 1 ? `${t.traveler} (option ${t.option})` : t.traveler));
+  const shown = names.length <= 6 ? names.join(', ') : `${names.slice(0, 5).join(', ')} and ${names.length - 5} more`;
+  const tripNames = [...new Set(trips.map((t) => t.trip))];
+  return `${shown} (${trips.length} travelers)${tripNames.length === 1 && tripNames[0] ? ` · ${tripNames[0]}` : ''}`;
+}
+
+/** Groups items by a key, keeping first-seen order. */
+function groupBy<T>(items: readonly T[], key: (t: T) => string): T[][] {
+  const groups = new Map<string, T[]>();
+  for (const item of items) {
+    const k = key(item);
+    const list = groups.get(k);
+    if (list) list.push(item);
+    else groups.set(k, [item]);
+  }
+  return [...groups.values()];
+}
+
+type Counted = { readonly trip: ScoredTrip; readonly c: ScoredConnection & { readonly pMake: number } };
+
+/** A connection on the same flights, the same day and with the same layover is one decision, however many fly it. */
+function connectionKey({ trip, c }: Counted): string {
+  const inbound = trip.legs[c.inboundLeg];
+  return [c.airport, c.departAirport, c.inboundFlight, inbound?.departLocal.slice(0, 10) ?? '', c.outboundFlight, c.layoverMinutes, c.pMake].join('|');
+}
+
+function connectionRecommendations(group: readonly Counted[], target: number): Recommendation[] {
+  const first = group[0];
+  if (!first) return [];
+  const { c } = first;
   const out: Recommendation[] = [];
-  const subject = `${tripLabel(trip)} · ${c.airport} (${connectionFlights(c)})`;
+  const subject = `${whoText(group.map((g) => g.trip))} · ${c.airport} (${connectionFlights(c)})`;
   const interval = c.pMakeInterval ? `, 90% interval ${formatPercentRange(c.pMakeInterval[0], c.pMakeInterval[1])}` : '';
   if (c.pMake < target) {
     const finding = `A ${formatMinutes(c.layoverMinutes)} layover is made ${formatPercent(c.pMake)} of the time${interval}: ${missSentence(c.pMake)}.`;
@@ -175,12 +209,15 @@ function connectionRecommendations(trip: ScoredTrip, c: ScoredConnection & { rea
 function recommendations(scored: ScoredTrips, counted: readonly ScoredTrip[]): Recommendation[] {
   const byRisk: Recommendation[] = [];
   const ranked = counted.flatMap((trip) => scoredConnections(trip).map((c) => ({ trip, c }))).sort((a, b) => a.c.pMake - b.c.pMake);
-  for (const { trip, c } of ranked) byRisk.push(...connectionRecommendations(trip, c, scored.target));
-  for (const trip of counted) {
-    if (trip.pArriveByDeadline === null || trip.pArriveByDeadline >= scored.target || trip.deadlineLocal === null) continue;
+  for (const group of groupBy(ranked, connectionKey)) byRisk.push(...connectionRecommendations(group, scored.target));
+  const late = counted.filter((t) => t.pArriveByDeadline !== null && t.pArriveByDeadline < scored.target && t.deadlineLocal !== null);
+  const sameJourney = (t: ScoredTrip) => [t.deadlineLocal, t.pArriveByDeadline, ...t.legs.map((l) => `${l.flight}@${l.departLocal}`)].join('|');
+  for (const group of groupBy(late, sameJourney)) {
+    const [trip] = group;
+    if (!trip || trip.pArriveByDeadline === null || trip.deadlineLocal === null) continue;
     byRisk.push({
       kind: 'deadline',
-      subject: tripLabel(trip),
+      subject: whoText(group),
       finding: `Arrives by the deadline (${trip.deadlineLocal.replace('T', ' ')} local) ${formatPercent(trip.pArriveByDeadline)} of the time: ${naturalFrequency(1 - trip.pArriveByDeadline).text} would be late.`,
       action: `Fly earlier, or arrive the day before: a night at the destination or the hub buys the margin the deadline needs.`,
     });

@@ -46,7 +46,7 @@ function tripBody(t: TripRow): string {
     (c) =>
       `<tr class="conn${c.belowTarget ? ' below' : ''}"><td>${e(c.airport)}<span class="flights">${e(c.flights)}</span></td><td class="num">${e(c.layover)}</td><td class="num">${e(c.mct)}</td>` +
       `<td class="num">${e(c.minLayover)}</td><td class="num">${e(c.margin)}</td><td class="num p">${e(c.pMake)}${c.belowTarget ? '<br><span class="marker">▲ below</span>' : ''}</td>` +
-      `<td class="num">${e(c.interval)}</td><td>${e(c.missFrequency)}</td><td>${e(c.flags)}</td></tr>`,
+      `<td class="num">${e(c.interval)}</td><td class="freq">${e(c.missFrequency)}</td><td>${e(c.flags)}</td></tr>`,
   );
   if (rows.length === 0) rows.push(`<tr class="conn"><td colspan="${TRIP_COLUMNS.length}">Nonstop: no connection.</td></tr>`);
   return `<tbody class="trip"><tr class="trip-head"><td colspan="${TRIP_COLUMNS.length}">${headline}</td></tr>${rows.join('')}</tbody>`;

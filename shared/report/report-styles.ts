@@ -34,6 +34,7 @@ tbody.trip { break-inside: avoid; page-break-inside: avoid; }
 th, td { text-align: left; vertical-align: top; padding: 1.1mm 1.4mm; border-bottom: 1px solid #d9dde3; }
 th { background: #e6ebf0; font-weight: 700; }
 td.num, th.num { text-align: right; white-space: nowrap; }
+td.freq { white-space: nowrap; }
 tr.trip-head td { background: #f4f6f8; border-top: 1.5px solid #8a949f; }
 tr.trip-head .who { font-weight: 700; }
 tr.trip-head .not-counted { color: #4a525c; font-style: italic; }

@@ -54,6 +54,13 @@ describe('buildBriefings', () => {
     expect(ines.connections.map((c) => c.mark)).toEqual(['', 'tightest']);
   });
 
+  it('watches a connection on separate tickets even when it is likely to be made', () => {
+    const priya = briefingFor('Priya Venkataraman');
+    expect(priya.watch.heading).toBe('Watch your connection at London (LHR)');
+    expect(priya.watch.why).toContain('Your two flights are on separate tickets, so the second airline will not wait for you or rebook you.');
+    expect(priya.connections[0]?.mark).toBe('watch');
+  });
+
   it('tells a traveler on one booking to use the transfer desk or the app', () => {
     const text = briefingFor('Tomas Brandt').ifMissed.join(' ');
     expect(text).toContain("the airline rebooks you: go to the airline's transfer desk at Chicago (ORD) or London (LHR), or use the airline's app");

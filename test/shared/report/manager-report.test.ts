@@ -34,6 +34,15 @@ describe('buildManagerReport', () => {
     expect(first?.action).toContain('at least 32 min later');
   });
 
+  it('makes one recommendation for a connection that several travelers share', () => {
+    const scored = sampleScoredTrips();
+    const ada = { ...tomasTrip, id: 'ada', traveler: 'Ada Fenn', optionGroup: 'Ada Fenn|Lisbon workshop' };
+    const r = buildManagerReport({ ...scored, trips: [...scored.trips, ada] }, OPTIONS);
+    const ord = r.recommendations.filter((x) => x.kind === 'connection');
+    expect(ord).toHaveLength(1);
+    expect(ord[0]?.subject).toBe('Tomas Brandt, Ada Fenn (2 travelers) · Lisbon workshop · ORD (UA 2214 → UA 958)');
+  });
+
   it('does not recommend changes to an alternative that is not counted', () => {
     expect(report.recommendations.some((r) => r.subject.includes('option A'))).toBe(false);
   });
