@@ -1,4 +1,5 @@
 // The benchmark suites `npm run bench` runs, one file each under suites/.
 import type { BenchSuite } from './suite';
+import { inferenceSuite } from './suites/inference';
 
-export const suites: readonly BenchSuite[] = [];
+export const suites: readonly BenchSuite[] = [inferenceSuite];

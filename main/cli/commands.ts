@@ -1,5 +1,6 @@
 // The table of subcommands. Each lives in its own file under commands/.
 import type { CliCommand } from './command';
+import { fitCommand } from './commands/fit';
 import { parseCommand } from './commands/parse';
 
-export const commands: readonly CliCommand[] = [parseCommand];
+export const commands: readonly CliCommand[] = [fitCommand, parseCommand];

@@ -530,17 +530,21 @@ export async function nuts(model: Model, options: NutsOptions): Promise<NutsResu
   for (let c = 0; c < chains; c++) {
     const rng = options.rng.split();
     const kernel = new NutsKernel(model, rng, maxTreeDepth);
+    // Jittered starts spread the chains (so R-hat can see disagreement), but a jitter can land
+    // where the density is finite yet so steep that no step size works (a Gumbel scale shrunk
+    // far below the data's spread). Such starts are retried closer in, ending at `start` itself.
     let started = false;
-    for (let attempt = 0; attempt < 100 && !started; attempt++) {
-      const width = jitter / (1 + attempt);
+    let finite = false;
+    for (let attempt = 0; attempt < 30 && !started; attempt++) {
+      const width = attempt === 29 ? 0 : jitter / (1 + attempt);
       for (let i = 0; i < dim; i++) theta[i] = start[i]! + width * (2 * rng.uniform() - 1);
-      started = kernel.setPosition(theta);
+      if (!kernel.setPosition(theta)) continue;
+      finite = true;
+      kernel.stepSize = 1;
+      started = kernel.findStepSize();
     }
-    if (!started && !kernel.setPosition(start)) {
-      throw new FitDivergedError('nuts', iteration, `the log density or its gradient is not finite at the start point of chain ${c + 1} (nor near it)`);
-    }
-    kernel.stepSize = 1;
-    if (!kernel.findStepSize()) throw new FitDivergedError('nuts', iteration, `no usable step size found for chain ${c + 1}; the posterior may be improper or discontinuous`);
+    if (!finite) throw new FitDivergedError('nuts', iteration, `the log density or its gradient is not finite at the start point of chain ${c + 1} (nor near it)`);
+    if (!started) throw new FitDivergedError('nuts', iteration, `no usable step size found for chain ${c + 1}; the posterior may be improper or discontinuous`);
     const adapter = new StepSizeAdapter(delta);
     adapter.restart(kernel.stepSize);
     const estimator = new VarianceEstimator(dim);

@@ -1,0 +1,72 @@
+// What `layline fit --model NAME` needs from a model: how to build it from a table, which
+// extra flags it takes, and how to summarise a fit in its own terms. Each model lives in its
+// own module and is listed in fit-models.ts, so adding one (e.g. `route`) touches no other.
+import type { FitResult } from '../../../shared/inference/fit-types';
+import type { NonCentredBlock } from '../../../shared/inference/centred-view';
+import type { Model } from '../../../shared/inference/model';
+import type { Rng } from '../../../shared/inference/rng';
+import type { CsvTable } from './csv-columns';
+
+export type FlagValues = Readonly<Record<string, string | boolean | undefined>>;
+
+export interface FitSummary {
+  /** Keys merged into the JSON output after the common ones (grouped: `groups`). */
+  readonly json: Readonly<Record<string, unknown>>;
+  /** The human-readable table, ending in a newline. */
+  readonly text: string;
+}
+
+export interface PreparedFit {
+  readonly model: Model;
+  /** Data rows behind the fit. */
+  readonly observations: number;
+  /** Non-centred blocks NUTS should sample in centred form (data-rich groups; see centred-view.ts). */
+  readonly nutsCentredBlocks?: readonly NonCentredBlock[];
+  summarise(result: FitResult, rng: Rng): FitSummary;
+}
+
+export interface FitModelAdapter {
+  /** The value of --model. */
+  readonly name: string;
+  /** One line for the usage text. */
+  readonly summary: string;
+  /** Usage lines for the flags this model adds. */
+  readonly flagUsage: readonly string[];
+  /** parseArgs options for those flags (all strings). */
+  readonly flags: Readonly<Record<string, { readonly type: 'string' }>>;
+  /** Builds the model; throws CliFailure for unusable data. `source` names the file in messages. */
+  prepare(table: CsvTable, flags: FlagValues, source: string): PreparedFit;
+}
+
+/** Mean and sd of one constrained quantity over posterior draws. */
+export interface Moments {
+  readonly mean: number;
+  readonly sd: number;
+}
+
+/** Welford accumulation of several quantities at once, one slot each. */
+export class MomentsAccumulator {
+  private n = 0;
+  private readonly mean: Float64Array;
+  private readonly m2: Float64Array;
+
+  constructor(slots: number) {
+    this.mean = new Float64Array(slots);
+    this.m2 = new Float64Array(slots);
+  }
+
+  /** Call once per draw, then `add(slot, value)` for each slot. */
+  nextDraw(): void {
+    this.n++;
+  }
+
+  add(slot: number, value: number): void {
+    const d = value - this.mean[slot]!;
+    this.mean[slot] = this.mean[slot]! + d / this.n;
+    this.m2[slot] = this.m2[slot]! + d * (value - this.mean[slot]!);
+  }
+
+  moments(slot: number): Moments {
+    return { mean: this.mean[slot]!, sd: this.n > 1 ? Math.sqrt(this.m2[slot]! / (this.n - 1)) : 0 };
+  }
+}
