@@ -1,6 +1,7 @@
 // Builds every runnable piece of Layline into dist/ with esbuild.
 //
 //   dist/main/main.cjs, preload.cjs   Electron main process and sandboxed preload
+//   dist/main/engine-thread.cjs       the worker thread that parses and scores for the main process
 //   dist/cli/layline.cjs              the `layline` command
 //   dist/web/serve.cjs                the plain-page server (`npm run web`)
 //   dist/renderer/                    the page: index.html, app.js, engine-worker.js, styles.css
@@ -22,8 +23,9 @@ await rm(out, { recursive: true, force: true });
 await mkdir(path.join(out, 'renderer'), { recursive: true });
 
 const jobs = [
-  build({ ...node, entryPoints: { main: 'main/electron/main.ts', preload: 'main/electron/preload.ts' }, outdir: 'dist/main', outExtension: { '.js': '.cjs' }, external: ['electron'] }),
-  build({ ...node, entryPoints: { layline: 'main/cli/layline.ts' }, outdir: 'dist/cli', outExtension: { '.js': '.cjs' }, banner: { js: '#!/usr/bin/env node' } }),
+  build({ ...node, entryPoints: { main: 'main/electron/main.ts', preload: 'main/electron/preload.ts', 'engine-thread': 'main/electron/engine-thread.ts' }, outdir: 'dist/main', outExtension: { '.js': '.cjs' }, external: ['electron'] }),
+  // playwright-core stays external: it reads its own package files at run time and cannot be bundled.
+  build({ ...node, entryPoints: { layline: 'main/cli/layline.ts' }, outdir: 'dist/cli', outExtension: { '.js': '.cjs' }, banner: { js: '#!/usr/bin/env node' }, external: ['playwright-core'] }),
   build({ ...node, entryPoints: { serve: 'main/web/serve.ts' }, outdir: 'dist/web', outExtension: { '.js': '.cjs' } }),
   build({ ...node, entryPoints: { run: 'main/bench/run.ts' }, outdir: 'dist/bench', outExtension: { '.js': '.cjs' } }),
   build({

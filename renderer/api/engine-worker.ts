@@ -1,17 +1,18 @@
 // The Web Worker behind the plain-page API: answers contract requests with shared/ handlers.
 import { APP_VERSION } from '../../shared/app-identity';
-import { createCoreHandlers } from '../../shared/api/handlers';
-import { serveRequest } from '../../shared/api/server';
-import type { WorkerReply, WorkerRequest } from './worker-protocol';
+import { createEngineHandlers } from '../../shared/api/engine-handlers';
+import { realEngineDeps } from '../../shared/api/engine-deps';
+import { combineHandlers, createCoreHandlers, createPageShellHandlers } from '../../shared/api/handlers';
+import { answerRequest, type WorkerReply, type WorkerRequest } from '../../shared/api/message-channel';
 
-const handlers = createCoreHandlers({ version: APP_VERSION, runtime: 'web', platform: navigator.platform || 'web' });
+const handlers = combineHandlers(
+  createCoreHandlers({ version: APP_VERSION, runtime: 'web', platform: navigator.platform || 'web' }),
+  createEngineHandlers(realEngineDeps(() => performance.now())),
+  createPageShellHandlers(),
+);
 
 self.addEventListener('message', (event: MessageEvent<WorkerRequest>) => {
-  const { id, channel, args } = event.data;
-  serveRequest(handlers, channel, args).then(
-    (value) => postReply({ id, ok: true, value }),
-    (err: unknown) => postReply({ id, ok: false, error: err instanceof Error ? err.message : String(err) }),
-  );
+  void answerRequest(handlers, event.data).then(postReply);
 });
 
 function postReply(reply: WorkerReply): void {

@@ -1,8 +1,2 @@
-// Messages between the page and its engine worker.
-export interface WorkerRequest {
-  readonly id: number;
-  readonly channel: string;
-  readonly args: unknown[];
-}
-
-export type WorkerReply = { readonly id: number; readonly ok: true; readonly value: unknown } | { readonly id: number; readonly ok: false; readonly error: string };
+// Messages between the page and its engine worker (shared with the Electron worker thread).
+export type { WorkerReply, WorkerRequest } from '../../shared/api/message-channel';

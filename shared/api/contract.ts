@@ -5,6 +5,9 @@
 // handlers and the in-page browser implementation are all typed from this table and
 // all validate against it at runtime, so a payload that slips past the types still fails.
 import * as v from 'valibot';
+import { AnalysisSettingsSchema, THEMES } from '../workspace/settings';
+import { WorkspaceContentSchema } from '../workspace/format';
+import { AnalysisSchema, BundleViewSchema, ConnectionCurveSchema } from './analysis-schema';
 
 export const AppInfoSchema = v.object({
   name: v.string(),
@@ -14,6 +17,54 @@ export const AppInfoSchema = v.object({
   platform: v.string(),
 });
 export type AppInfo = v.InferOutput<typeof AppInfoSchema>;
+
+/** The pasted or imported trips text, bounded so a runaway paste cannot stall the engine. */
+const TripsText = v.pipe(v.string(), v.maxLength(5_000_000));
+const Id = v.pipe(v.string(), v.minLength(1), v.maxLength(400));
+const FilePath = v.pipe(v.string(), v.minLength(1), v.maxLength(4096));
+
+export const MENU_COMMANDS = ['new', 'open', 'save', 'save-as', 'import', 'undo', 'redo', 'load-demo', 'show-settings', 'find'] as const;
+export type MenuCommand = (typeof MENU_COMMANDS)[number];
+
+/** Something the main process tells the page: a menu choice, a file to open, a theme switch. */
+export const AppEventSchema = v.variant('kind', [
+  v.strictObject({ kind: v.literal('menu'), command: v.picklist(MENU_COMMANDS) }),
+  v.strictObject({ kind: v.literal('open-path'), path: FilePath }),
+  v.strictObject({ kind: v.literal('theme'), dark: v.boolean() }),
+]);
+export type AppEvent = v.InferOutput<typeof AppEventSchema>;
+
+/** Whether the page holds edits that are not saved, for the prompt on close. */
+export const DocumentStateSchema = v.strictObject({
+  dirty: v.boolean(),
+});
+export type DocumentState = v.InferOutput<typeof DocumentStateSchema>;
+
+export const OpenedWorkspaceSchema = v.variant('status', [
+  v.object({ status: v.literal('opened'), filePath: v.string(), savedAt: v.string(), content: WorkspaceContentSchema }),
+  v.object({ status: v.literal('cancelled') }),
+  /** The file could not be used; `message` says why and that the file was left as it is. */
+  v.object({ status: v.literal('failed'), filePath: v.string(), message: v.string() }),
+]);
+export type OpenedWorkspace = v.InferOutput<typeof OpenedWorkspaceSchema>;
+
+export const SavedWorkspaceSchema = v.variant('status', [
+  v.object({ status: v.literal('saved'), filePath: v.string() }),
+  v.object({ status: v.literal('cancelled') }),
+  v.object({ status: v.literal('failed'), filePath: v.string(), message: v.string() }),
+]);
+export type SavedWorkspace = v.InferOutput<typeof SavedWorkspaceSchema>;
+
+export const ImportedFileSchema = v.variant('status', [
+  v.object({ status: v.literal('imported'), name: v.string(), text: v.string() }),
+  v.object({ status: v.literal('cancelled') }),
+  v.object({ status: v.literal('failed'), message: v.string() }),
+]);
+
+export const RecoveryOfferSchema = v.nullable(
+  v.object({ savedAt: v.string(), sourcePath: v.nullable(v.string()), content: WorkspaceContentSchema }),
+);
+export type RecoveryOffer = v.InferOutput<typeof RecoveryOfferSchema>;
 
 /**
  * One request: a strict tuple schema for its arguments and a schema for what it resolves to.
@@ -32,6 +83,35 @@ function request<A extends v.GenericSchema, R extends v.GenericSchema>(args: A, 
 
 export const apiContract = {
   getAppInfo: request(v.strictTuple([]), AppInfoSchema),
+
+  // The engine: runs off the UI thread (a Web Worker in the page, a worker thread in Electron).
+  /** Parse and score a trips text under the given settings. */
+  analyzeTrips: request(v.strictTuple([TripsText, AnalysisSettingsSchema]), AnalysisSchema),
+  /** P(make) against layover and the margin distribution for one connection of an earlier analysis. */
+  connectionCurve: request(v.strictTuple([Id, Id, v.pipe(v.number(), v.integer(), v.minValue(0), v.maxValue(100))]), ConnectionCurveSchema),
+  /** The posterior bundle in use and its provenance, or a message saying why none is available. */
+  getBundleInfo: request(v.strictTuple([]), v.object({ bundle: v.nullable(BundleViewSchema), error: v.nullable(v.string()) })),
+
+  // Files and the desktop shell (Electron only; the page uses the browser's own file handling).
+  /** Open a workspace: null asks with the native dialog; a path must be one of the recent documents. */
+  openWorkspace: request(v.strictTuple([v.nullable(FilePath)]), OpenedWorkspaceSchema),
+  /**
+   * Save to the current file, or ask where when there is none or `saveAs` is true. The main
+   * process keeps the path itself, so the page cannot direct a write to an arbitrary file.
+   */
+  saveWorkspace: request(v.strictTuple([WorkspaceContentSchema, v.boolean()]), SavedWorkspaceSchema),
+  /** Forget the current file (File › New); the next save asks where. */
+  newWorkspace: request(v.strictTuple([]), v.null()),
+  importTripsFile: request(v.strictTuple([]), ImportedFileSchema),
+  autosaveWorkspace: request(v.strictTuple([WorkspaceContentSchema]), v.null()),
+  takeRecovery: request(v.strictTuple([]), RecoveryOfferSchema),
+  discardRecovery: request(v.strictTuple([]), v.null()),
+  recentWorkspaces: request(v.strictTuple([]), v.array(v.string())),
+  setDocumentState: request(v.strictTuple([DocumentStateSchema]), v.null()),
+  setTheme: request(v.strictTuple([v.picklist(THEMES)]), v.object({ dark: v.boolean() })),
+  /** Resolves with the next event from the main process (long poll); the page asks again after each. */
+  nextAppEvent: request(v.strictTuple([]), AppEventSchema),
+  openExternal: request(v.strictTuple([v.pipe(v.string(), v.maxLength(2048))]), v.boolean()),
 } as const;
 
 export type ApiContract = typeof apiContract;

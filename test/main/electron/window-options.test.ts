@@ -16,3 +16,11 @@ describe('mainWindowOptions', () => {
     });
   });
 });
+
+describe('mainWindowOptions, further', () => {
+  it('never enables node in subframes and keeps the window hidden until ready', () => {
+    const options = mainWindowOptions('/app/preload.cjs');
+    expect(options.webPreferences?.nodeIntegrationInSubFrames).toBe(false);
+    expect(options.show).toBe(false);
+  });
+});

@@ -1,0 +1,98 @@
+// The desktop shell's requests over a real WorkspaceSession on temp files, dialogs faked.
+import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { AppEventQueue } from '../../../main/electron/app-events';
+import { createShellHandlers, type ShellDeps } from '../../../main/electron/shell-handlers';
+import { WorkspaceSession } from '../../../main/workspace/workspace-session';
+import { EMPTY_WORKSPACE } from '../../../shared/workspace/format';
+
+let dir: string;
+beforeEach(async () => {
+  dir = await mkdtemp(path.join(os.tmpdir(), 'layline-shell-'));
+});
+afterEach(async () => {
+  await rm(dir, { recursive: true, force: true });
+});
+
+function shell(overrides: Partial<ShellDeps> = {}) {
+  const session = new WorkspaceSession(path.join(dir, 'data'), () => new Date('2026-02-01T12:00:00Z'));
+  const deps: ShellDeps = {
+    session,
+    events: new AppEventQueue(),
+    chooseWorkspaceToOpen: vi.fn(async () => null),
+    chooseWorkspaceToSave: vi.fn(async () => path.join(dir, 'offsite')),
+    chooseTripsFile: vi.fn(async () => null),
+    setTheme: vi.fn(() => ({ dark: true })),
+    openExternal: vi.fn(async () => undefined),
+    onDirty: vi.fn(),
+    onRecentChanged: vi.fn(),
+    ...overrides,
+  };
+  return { handlers: createShellHandlers(deps), deps, session };
+}
+
+const content = { ...EMPTY_WORKSPACE, tripsText: 'Ada,T,UA 1,ORD,2026-03-08 07:00,BOS,10:30' };
+
+describe('shell handlers', () => {
+  it('asks where on the first save, then saves to the same file, and opens it back', async () => {
+    const { handlers, deps } = shell();
+    const first = await handlers.saveWorkspace(content, false);
+    expect(first).toEqual({ status: 'saved', filePath: path.join(dir, 'offsite.layline') });
+    await handlers.saveWorkspace({ ...content, tripsText: 'second' }, false);
+    expect(deps.chooseWorkspaceToSave).toHaveBeenCalledTimes(1);
+    expect(JSON.parse(await readFile(path.join(dir, 'offsite.layline.bak'), 'utf8')).content.tripsText).toBe(content.tripsText);
+    const reopened = await shell().handlers.openWorkspace(path.join(dir, 'offsite.layline'));
+    expect(reopened).toMatchObject({ status: 'opened', content: { tripsText: 'second' } });
+    expect(deps.onRecentChanged).toHaveBeenCalledWith([path.join(dir, 'offsite.layline')]);
+  });
+
+  it('will not open a path the page names unless it is a recent document', async () => {
+    const secret = path.join(dir, 'secret.layline');
+    await writeFile(secret, 'x');
+    const r = await shell().handlers.openWorkspace(secret);
+    expect(r).toMatchObject({ status: 'failed', message: expect.stringMatching(/not a recent workspace/) });
+  });
+
+  it('reports a corrupt workspace chosen in the dialog and leaves it alone', async () => {
+    const bad = path.join(dir, 'bad.layline');
+    await writeFile(bad, '{"format":"layline-workspace"');
+    const { handlers } = shell({ chooseWorkspaceToOpen: async () => bad });
+    const r = await handlers.openWorkspace(null);
+    expect(r).toMatchObject({ status: 'failed', message: expect.stringMatching(/damaged or is not a Layline workspace/) });
+    expect(await readFile(bad, 'utf8')).toBe('{"format":"layline-workspace"');
+  });
+
+  it('cancels cleanly when the user closes a dialog', async () => {
+    const { handlers } = shell({ chooseWorkspaceToSave: async () => null });
+    await expect(handlers.saveWorkspace(content, true)).resolves.toEqual({ status: 'cancelled' });
+    await expect(handlers.openWorkspace(null)).resolves.toEqual({ status: 'cancelled' });
+    await expect(handlers.importTripsFile()).resolves.toEqual({ status: 'cancelled' });
+  });
+
+  it('imports a trips file chosen in the dialog', async () => {
+    const file = path.join(dir, 'trips.csv');
+    await writeFile(file, 'traveler,trip\n');
+    const { handlers } = shell({ chooseTripsFile: async () => file });
+    await expect(handlers.importTripsFile()).resolves.toEqual({ status: 'imported', name: 'trips.csv', text: 'traveler,trip\n' });
+  });
+
+  it('autosaves, offers the work back after a restart, and forgets it after a save', async () => {
+    const { handlers } = shell();
+    await handlers.autosaveWorkspace(content);
+    const next = shell();
+    await expect(next.handlers.takeRecovery()).resolves.toMatchObject({ content, sourcePath: null });
+    await next.handlers.saveWorkspace(content, false);
+    await expect(shell().handlers.takeRecovery()).resolves.toBeNull();
+  });
+
+  it('opens only allow-listed https links and reports dirty state', async () => {
+    const { handlers, deps } = shell();
+    await expect(handlers.openExternal('https://evil.example/')).resolves.toBe(false);
+    await expect(handlers.openExternal('https://www.iana.org/time-zones')).resolves.toBe(true);
+    expect(deps.openExternal).toHaveBeenCalledTimes(1);
+    await handlers.setDocumentState({ dirty: true });
+    expect(deps.onDirty).toHaveBeenCalledWith(true);
+  });
+});
