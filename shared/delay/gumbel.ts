@@ -9,6 +9,7 @@
 // an invalid parameter (beta <= 0 or not finite, mu not finite) gives NaN; x = ±Infinity
 // gives the limit (cdf 0 or 1, density 0, log density -Infinity).
 import type { Rng } from '../inference/rng';
+import type { DelayDistribution } from './predictive';
 
 export const EULER_GAMMA = 0.5772156649015329;
 
@@ -71,4 +72,18 @@ export function gumbelMean(mu: number, beta: number): number {
 
 export function gumbelVariance(mu: number, beta: number): number {
   return invalid(mu, beta) ? NaN : (Math.PI * Math.PI * beta * beta) / 6;
+}
+
+/**
+ * A Gumbel as a DelayDistribution object, for the risk engine and the models' predictives.
+ * Invalid parameters throw here (once), rather than giving NaN on every later call.
+ */
+export function gumbelDistribution(mu: number, beta: number): DelayDistribution {
+  if (invalid(mu, beta)) throw new RangeError(`Gumbel needs a finite location and a finite scale > 0, got (${mu}, ${beta})`);
+  return {
+    cdf: (x) => gumbelCdf(x, mu, beta),
+    survival: (x) => gumbelSurvival(x, mu, beta),
+    pdf: (x) => gumbelPdf(x, mu, beta),
+    sample: (rng) => gumbelSample(rng, mu, beta),
+  };
 }

@@ -64,6 +64,8 @@ export interface FitResult {
    * from the Laplace approximation it reports as `sd`/covariance.
    */
   draws(rng: Rng, count: number): Float64Array;
+  /** VI only: log q(θ) of the fitted approximation, normalised (for importance-sampling diagnostics such as PSIS). */
+  logApproxDensity?(theta: Float64Array): number;
   readonly diagnostics: FitDiagnostics;
 }
 

@@ -30,7 +30,14 @@ export interface MinibatchModel {
    * gradient into `grad`. For an unbiased estimate of the full log density use
    * scale = units / batchLength when the batch is drawn uniformly.
    */
-  logDensityGradBatch(theta: Float64Array, grad: Float64Array, batch: Int32Array, batchLength: number, scale: number): number;
+  logDensityGradBatch(theta: Float64Array, grad: Float64Array, batch: Int32Array, batchLength: number, scale: number, elementScale?: Float64Array): number;
+  /**
+   * Optional per-unit weights (for weighted triples, the counts). With them an algorithm can
+   * draw units in proportion to weight (i.e. draw rows) and pass `elementScale[k]` =
+   * totalWeight / (batchLength * weight[batch[k]]), which replaces `scale * weight` for that
+   * element and keeps the estimate unbiased.
+   */
+  readonly unitWeights?: Float64Array;
 }
 
 /**

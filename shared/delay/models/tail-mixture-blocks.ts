@@ -1,0 +1,194 @@
+// Route-block computations on the tail-mixture model: the curvature of one route's
+// conditional posterior, its Laplace approximation, and a block-coordinate warm start.
+//
+// Given the airport effects and hyperparameters, routes are conditionally independent, so
+// each route's k parameters form a small block whose Hessian is cheap by central differences
+// of the route's own gradient (2k passes over that route's flights).
+import type { TailMixtureModel } from './tail-mixture';
+
+/** Lower Cholesky factor of a symmetric positive-definite k x k matrix (row-major), or null. */
+export function cholesky(a: Float64Array, k: number): Float64Array | null {
+  const l = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) {
+    for (let j = 0; j <= i; j++) {
+      let s = a[i * k + j]!;
+      for (let p = 0; p < j; p++) s -= l[i * k + p]! * l[j * k + p]!;
+      if (i === j) {
+        if (!(s > 0)) return null;
+        l[i * k + i] = Math.sqrt(s);
+      } else l[i * k + j] = s / l[j * k + j]!;
+    }
+  }
+  return l;
+}
+
+/** Solves (L L') x = b in place of b, L from cholesky(). */
+export function choleskySolve(l: Float64Array, k: number, b: Float64Array): Float64Array {
+  const x = b.slice();
+  for (let i = 0; i < k; i++) {
+    let s = x[i]!;
+    for (let p = 0; p < i; p++) s -= l[i * k + p]! * x[p]!;
+    x[i] = s / l[i * k + i]!;
+  }
+  for (let i = k - 1; i >= 0; i--) {
+    let s = x[i]!;
+    for (let p = i + 1; p < k; p++) s -= l[p * k + i]! * x[p]!;
+    x[i] = s / l[i * k + i]!;
+  }
+  return x;
+}
+
+/** Inverse of a symmetric positive-definite matrix from its Cholesky factor. */
+export function inverseFromCholesky(l: Float64Array, k: number): Float64Array {
+  const inv = new Float64Array(k * k);
+  const e = new Float64Array(k);
+  for (let c = 0; c < k; c++) {
+    e.fill(0);
+    e[c] = 1;
+    const col = choleskySolve(l, k, e);
+    for (let i = 0; i < k; i++) inv[i * k + c] = col[i]!;
+  }
+  return inv;
+}
+
+/**
+ * Minus the Hessian (the precision) of route r's block at phi, by central differences of its
+ * gradient, symmetrised. `natural` holds every other parameter.
+ */
+export function routePrecision(model: TailMixtureModel, natural: Float64Array, route: number, phi: Float64Array): Float64Array {
+  const { k } = model.layout;
+  const precision = new Float64Array(k * k);
+  const gp = new Float64Array(k);
+  const gm = new Float64Array(k);
+  const x = new Float64Array(k);
+  for (let j = 0; j < k; j++) {
+    const h = 1e-4 * Math.max(1, Math.abs(phi[j]!));
+    x.set(phi);
+    x[j] = phi[j]! + h;
+    model.routeBlockLogDensityGrad(natural, route, x, gp);
+    x[j] = phi[j]! - h;
+    model.routeBlockLogDensityGrad(natural, route, x, gm);
+    for (let i = 0; i < k; i++) precision[i * k + j] = -(gp[i]! - gm[i]!) / (2 * h);
+  }
+  for (let i = 0; i < k; i++) {
+    for (let j = 0; j < i; j++) {
+      const v = 0.5 * (precision[i * k + j]! + precision[j * k + i]!);
+      precision[i * k + j] = v;
+      precision[j * k + i] = v;
+    }
+  }
+  return precision;
+}
+
+/** Cholesky of precision + ridge * I with the smallest ridge (0, 1e-6, 1e-5, ...) that works. */
+function regularisedCholesky(precision: Float64Array, k: number): { l: Float64Array; ridge: number } | null {
+  let ridge = 0;
+  for (let attempt = 0; attempt < 30; attempt++) {
+    const p = precision.slice();
+    for (let i = 0; i < k; i++) p[i * k + i]! += ridge;
+    const l = cholesky(p, k);
+    if (l) return { l, ridge };
+    ridge = ridge === 0 ? 1e-6 : ridge * 10;
+  }
+  return null;
+}
+
+/**
+ * Gaussian approximation of route r's conditional posterior at the mode in `natural`: the
+ * mean (the mode) and the lower Cholesky factor of the covariance.
+ */
+export function routeLaplace(model: TailMixtureModel, natural: Float64Array, route: number): { mean: Float64Array; chol: Float64Array; ridge: number } {
+  const { k } = model.layout;
+  const mean = natural.slice(model.layout.phi + route * k, model.layout.phi + (route + 1) * k);
+  const reg = regularisedCholesky(routePrecision(model, natural, route, mean), k);
+  const chol = reg ? cholesky(inverseFromCholesky(reg.l, k), k) : null;
+  if (!reg || !chol) throw new RangeError(`route ${route}: its posterior curvature could not be made positive definite`);
+  return { mean, chol, ridge: reg.ridge };
+}
+
+/**
+ * A warm start for the full MAP fit by block-coordinate ascent: each sweep takes damped
+ * Newton steps on every route's block, then re-solves the airport effects, population means
+ * and sds given the routes (the Gaussian hierarchy's conditional modes). A few sweeps bring
+ * the thousands of route blocks near their optimum, which plain L-BFGS over all coordinates
+ * reaches only slowly. Modifies `natural` in place.
+ */
+export function warmStart(model: TailMixtureModel, natural: Float64Array, originOf: Int32Array, destinationOf: Int32Array, sweeps = 2): void {
+  const L = model.layout;
+  const { k } = L;
+  const phi = new Float64Array(k);
+  const trial = new Float64Array(k);
+  const grad = new Float64Array(k);
+  const scratch = new Float64Array(k);
+  for (let sweep = 0; sweep < sweeps; sweep++) {
+    for (let r = 0; r < L.routes; r++) {
+      phi.set(natural.subarray(L.phi + r * k, L.phi + (r + 1) * k));
+      const lp = model.routeBlockLogDensityGrad(natural, r, phi, grad);
+      const reg = regularisedCholesky(routePrecision(model, natural, r, phi), k);
+      if (!reg) continue;
+      const step = choleskySolve(reg.l, k, grad);
+      for (let alpha = 1; alpha > 1e-3; alpha *= 0.5) {
+        for (let j = 0; j < k; j++) trial[j] = phi[j]! + alpha * step[j]!;
+        const next = model.routeBlockLogDensityGrad(natural, r, trial, scratch);
+        if (Number.isFinite(next) && next >= lp) {
+          natural.set(trial, L.phi + r * k);
+          break;
+        }
+      }
+    }
+    updateHierarchy(model, natural, originOf, destinationOf);
+  }
+}
+
+/** Conditional modes of population means, airport effects and sds given the route parameters. */
+function updateHierarchy(model: TailMixtureModel, natural: Float64Array, originOf: Int32Array, destinationOf: Int32Array): void {
+  const L = model.layout;
+  const { k } = L;
+  const routesFrom = new Float64Array(L.airports);
+  const routesTo = new Float64Array(L.airports);
+  for (let r = 0; r < L.routes; r++) {
+    routesFrom[originOf[r]!]! += 1;
+    routesTo[destinationOf[r]!]! += 1;
+  }
+  const sumA = new Float64Array(L.airports);
+  const sumB = new Float64Array(L.airports);
+  for (let j = 0; j < k; j++) {
+    const phiAt = (r: number) => natural[L.phi + r * k + j]!;
+    const A = (a: number) => natural[L.origin + a * k + j]!;
+    const B = (a: number) => natural[L.destination + a * k + j]!;
+    for (let pass = 0; pass < 5; pass++) {
+      let s = 0;
+      for (let r = 0; r < L.routes; r++) s += phiAt(r) - A(originOf[r]!) - B(destinationOf[r]!);
+      natural[L.pop + j] = s / L.routes;
+      const pop = natural[L.pop + j]!;
+      const varRoute = Math.exp(2 * natural[L.logSdRoute + j]!);
+      sumA.fill(0);
+      for (let r = 0; r < L.routes; r++) sumA[originOf[r]!]! += phiAt(r) - pop - B(destinationOf[r]!);
+      const ratioA = varRoute / Math.exp(2 * natural[L.logSdOrigin + j]!);
+      for (let a = 0; a < L.airports; a++) natural[L.origin + a * k + j] = sumA[a]! / (routesFrom[a]! + ratioA);
+      sumB.fill(0);
+      for (let r = 0; r < L.routes; r++) sumB[destinationOf[r]!]! += phiAt(r) - pop - A(originOf[r]!);
+      const ratioB = varRoute / Math.exp(2 * natural[L.logSdDestination + j]!);
+      for (let a = 0; a < L.airports; a++) natural[L.destination + a * k + j] = sumB[a]! / (routesTo[a]! + ratioB);
+      let ss = 0;
+      for (let r = 0; r < L.routes; r++) ss += (phiAt(r) - pop - A(originOf[r]!) - B(destinationOf[r]!)) ** 2;
+      natural[L.logSdRoute + j] = 0.5 * Math.log(Math.max(ss / L.routes, 1e-8));
+      let sa = 0;
+      let sb = 0;
+      let na = 0;
+      let nb = 0;
+      for (let a = 0; a < L.airports; a++) {
+        if (routesFrom[a]! > 0) {
+          sa += A(a) ** 2;
+          na++;
+        }
+        if (routesTo[a]! > 0) {
+          sb += B(a) ** 2;
+          nb++;
+        }
+      }
+      natural[L.logSdOrigin + j] = 0.5 * Math.log(Math.max(sa / Math.max(na, 1), 1e-8));
+      natural[L.logSdDestination + j] = 0.5 * Math.log(Math.max(sb / Math.max(nb, 1), 1e-8));
+    }
+  }
+}

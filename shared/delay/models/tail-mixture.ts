@@ -1,0 +1,488 @@
+// The route delay models compared for the bundled posteriors: one Gumbel per route, a
+// typical-plus-disrupted Gumbel mixture, and a Gumbel plus heavy-tailed Student-t mixture,
+// all pooled hierarchically (route toward origin and destination effects toward population
+// values) with optional calendar-month random effects.
+//
+// Centred parameterisation: each route's parameter vector phi_r ~ N(pop + A_origin + B_dest,
+// sigma_route), A ~ N(0, sigma_origin), B ~ N(0, sigma_dest). With tens of thousands of flights
+// per route the data pin phi_r and the centred form is the well-conditioned one for MAP; its
+// per-route conditional posterior is what the bundle's block Laplace approximation uses.
+import type { Model } from '../../inference/model';
+import { digamma, logGamma } from './student-t';
+import type { PeriodWeightedData } from '../evaluation/weighted-delays';
+
+/**
+ * 'gumbel': [mu, log beta]. 'gumbel-gumbel': typical Gumbel [mu, log beta], disrupted Gumbel
+ * [mu2, log beta2], [logit w]. 'gumbel-t': typical Gumbel, disrupted Student-t [m, log s],
+ * [logit w], with a population degrees-of-freedom parameter.
+ */
+export type TailFamily = 'gumbel' | 'gumbel-gumbel' | 'gumbel-t';
+
+export const FAMILY_PARAMETERS: Readonly<Record<TailFamily, readonly string[]>> = {
+  gumbel: ['mu', 'log_beta'],
+  'gumbel-gumbel': ['mu', 'log_beta', 'mu_disrupted', 'log_beta_disrupted', 'logit_w'],
+  'gumbel-t': ['mu', 'log_beta', 'm_disrupted', 'log_s_disrupted', 'logit_w'],
+};
+
+/** Per-parameter starting values and (weak) population prior: N(init, priorSd). */
+const FAMILY_INIT: Readonly<Record<TailFamily, readonly number[]>> = {
+  gumbel: [-2, Math.log(15)],
+  'gumbel-gumbel': [-6, Math.log(9), 15, Math.log(35), -1.3],
+  'gumbel-t': [-6, Math.log(9), 25, Math.log(25), -1.3],
+};
+const POP_PRIOR_SD: Readonly<Record<TailFamily, readonly number[]>> = {
+  gumbel: [60, 2],
+  'gumbel-gumbel': [60, 2, 100, 2, 3],
+  'gumbel-t': [60, 2, 100, 2, 3],
+};
+/** log sd hyperparameters ~ N(LOG_SD_PRIOR_MEAN, LOG_SD_PRIOR_SD): weak, on the log scale. */
+const LOG_SD_PRIOR_MEAN = -1;
+const LOG_SD_PRIOR_SD = 2;
+/** Student-t degrees of freedom: log df ~ N(log 4, 1). */
+const LOG_DF_PRIOR_MEAN = Math.log(4);
+const LOG_DF_PRIOR_SD = 1;
+
+export interface TailMixtureData {
+  readonly data: PeriodWeightedData;
+  readonly airportCount: number;
+  /** Origin and destination airport index of each route (group). */
+  readonly originOf: Int32Array;
+  readonly destinationOf: Int32Array;
+}
+
+export interface TailMixtureLayout {
+  readonly family: TailFamily;
+  readonly k: number;
+  readonly routes: number;
+  readonly airports: number;
+  readonly periods: number;
+  /** Indices (into the family's parameters) that get a month random effect. */
+  readonly monthEffects: readonly number[];
+  readonly phi: number;
+  readonly origin: number;
+  readonly destination: number;
+  readonly delta: number;
+  readonly pop: number;
+  readonly logSdRoute: number;
+  readonly logSdOrigin: number;
+  readonly logSdDestination: number;
+  readonly logTau: number;
+  /** Offset of log df, or -1 without a Student-t component. */
+  readonly logDf: number;
+  readonly dim: number;
+}
+
+export function tailMixtureLayout(family: TailFamily, routes: number, airports: number, periods: number, monthEffects: readonly number[]): TailMixtureLayout {
+  const k = FAMILY_PARAMETERS[family].length;
+  for (const j of monthEffects) if (!(j >= 0 && j < k)) throw new RangeError(`month effect index ${j} is outside the ${family} parameters`);
+  const m = periods > 0 ? monthEffects.length : 0;
+  const phi = 0;
+  const origin = phi + routes * k;
+  const destination = origin + airports * k;
+  const delta = destination + airports * k;
+  const pop = delta + periods * m;
+  const logSdRoute = pop + k;
+  const logSdOrigin = logSdRoute + k;
+  const logSdDestination = logSdOrigin + k;
+  const logTau = logSdDestination + k;
+  const logDf = family === 'gumbel-t' ? logTau + m : -1;
+  const dim = logTau + m + (family === 'gumbel-t' ? 1 : 0);
+  return { family, k, routes, airports, periods, monthEffects: m ? monthEffects : [], phi, origin, destination, delta, pop, logSdRoute, logSdOrigin, logSdDestination, logTau, logDf, dim };
+}
+
+const HALF_LOG_2PI = 0.5 * Math.log(2 * Math.PI);
+
+/** Adds log N(x | mean, exp(logSd)) and its gradient (dx, dmean, dlogSd) to out. */
+function normalTerm(x: number, mean: number, logSd: number, out: Float64Array): number {
+  const sd = Math.exp(logSd);
+  const z = (x - mean) / sd;
+  out[0] = -z / sd;
+  out[1] = z / sd;
+  out[2] = z * z - 1;
+  return -HALF_LOG_2PI - logSd - 0.5 * z * z;
+}
+
+/**
+ * Per-flight log density of one delay under parameters eta (length k), writing d/d eta into
+ * grad (length k) and d/d log df into gradDf[0]. Shared by the model and by tests.
+ */
+export function flightLogDensity(family: TailFamily, x: number, eta: Float64Array, df: number, grad: Float64Array, gradDf: Float64Array): number {
+  const mu = eta[0]!;
+  const beta = Math.exp(eta[1]!);
+  const z = (x - mu) / beta;
+  const ez = Math.exp(-z);
+  const l1 = -eta[1]! - z - ez;
+  const d1mu = (1 - ez) / beta;
+  const d1b = -1 + z * (1 - ez);
+  if (family === 'gumbel') {
+    grad[0] = d1mu;
+    grad[1] = d1b;
+    gradDf[0] = 0;
+    return l1;
+  }
+  const w = 1 / (1 + Math.exp(-eta[4]!));
+  let l2: number;
+  let d2a: number;
+  let d2b: number;
+  let d2df = 0;
+  if (family === 'gumbel-gumbel') {
+    const beta2 = Math.exp(eta[3]!);
+    const z2 = (x - eta[2]!) / beta2;
+    const ez2 = Math.exp(-z2);
+    l2 = -eta[3]! - z2 - ez2;
+    d2a = (1 - ez2) / beta2;
+    d2b = -1 + z2 * (1 - ez2);
+  } else {
+    const s = Math.exp(eta[3]!);
+    const u = (x - eta[2]!) / s;
+    const u2 = u * u;
+    const q = df + u2;
+    const log1 = Math.log1p(u2 / df);
+    l2 = logGamma((df + 1) / 2) - logGamma(df / 2) - 0.5 * Math.log(df * Math.PI) - eta[3]! - ((df + 1) / 2) * log1;
+    d2a = ((df + 1) * u) / (s * q);
+    d2b = -1 + ((df + 1) * u2) / q;
+    // d l2 / d df, times df for the log-df chain rule.
+    d2df = df * 0.5 * (digamma((df + 1) / 2) - digamma(df / 2) - 1 / df - log1 + ((df + 1) * u2) / (df * q));
+  }
+  const a1 = Math.log1p(-w) + l1;
+  const a2 = Math.log(w) + l2;
+  const top = Math.max(a1, a2);
+  const lp = top + Math.log(Math.exp(a1 - top) + Math.exp(a2 - top));
+  const r2 = Math.exp(a2 - lp);
+  const r1 = 1 - r2;
+  grad[0] = r1 * d1mu;
+  grad[1] = r1 * d1b;
+  grad[2] = r2 * d2a;
+  grad[3] = r2 * d2b;
+  grad[4] = r2 - w;
+  gradDf[0] = r2 * d2df;
+  return lp;
+}
+
+/**
+ * The model's coordinates are the natural parameters (minutes, log scales, logits) each
+ * multiplied by a fixed scale of the order of the square root of its Fisher information
+ * (e.g. sqrt(flights of the route) / beta for a route's location). That linear change of
+ * variables has a constant Jacobian, so it moves no mode and changes no posterior, but it
+ * makes the curvature of routes with 10 and with 30,000 flights alike, which L-BFGS and
+ * ADVI need to converge in hundreds rather than many thousands of steps.
+ */
+export interface TailMixtureModel extends Model {
+  readonly layout: TailMixtureLayout;
+  /** The coordinate scales: theta = natural * scale. */
+  readonly scale: Float64Array;
+  toNatural(theta: Float64Array): Float64Array;
+  fromNatural(natural: Float64Array): Float64Array;
+  /** The log density and its gradient in natural parameters. */
+  naturalLogDensityGrad(natural: Float64Array, grad: Float64Array): number;
+  /** Log density in route r's natural parameters alone (its flights plus its prior), the rest of `natural` held fixed. */
+  routeBlockLogDensityGrad(natural: Float64Array, route: number, phi: Float64Array, grad: Float64Array): number;
+}
+
+/** Rough per-flight Fisher information square roots of each family parameter, for the coordinate scales. */
+const FISHER_SCALE: Readonly<Record<TailFamily, readonly number[]>> = {
+  gumbel: [1 / 15, 1.3],
+  'gumbel-gumbel': [0.1, 1.2, 0.02, 0.45, 0.4],
+  'gumbel-t': [0.1, 1.2, 0.015, 0.45, 0.4],
+};
+/** Rough 1 / sd_route per family parameter, for the scales of airport and population coordinates. */
+const POOL_SCALE: Readonly<Record<TailFamily, readonly number[]>> = {
+  gumbel: [0.3, 5],
+  'gumbel-gumbel': [0.3, 5, 0.1, 3, 2],
+  'gumbel-t': [0.3, 5, 0.1, 3, 2],
+};
+
+/** Builds the model over weighted (route, month, minute, count) data. */
+export function createTailMixtureModel(family: TailFamily, input: TailMixtureData, monthEffects: readonly number[] = []): TailMixtureModel {
+  const { data } = input;
+  const layout = tailMixtureLayout(family, data.groupCount, input.airportCount, monthEffects.length ? data.periodCount : 0, monthEffects);
+  const { k } = layout;
+  const m = layout.monthEffects.length;
+  const names: string[] = [];
+  const params = FAMILY_PARAMETERS[family];
+  for (let r = 0; r < layout.routes; r++) for (const p of params) names.push(`${p}[route ${r}]`);
+  for (let a = 0; a < layout.airports; a++) for (const p of params) names.push(`${p}[origin ${a}]`);
+  for (let a = 0; a < layout.airports; a++) for (const p of params) names.push(`${p}[destination ${a}]`);
+  for (let q = 0; q < layout.periods; q++) for (const j of layout.monthEffects) names.push(`${params[j]}[month ${data.periodLabels[q]}]`);
+  for (const p of params) names.push(`${p}_pop`);
+  for (const p of params) names.push(`log_sd_route_${p}`);
+  for (const p of params) names.push(`log_sd_origin_${p}`);
+  for (const p of params) names.push(`log_sd_destination_${p}`);
+  for (const j of layout.monthEffects) names.push(`log_sd_month_${params[j]}`);
+  if (layout.logDf >= 0) names.push('log_df');
+
+  // Where each route's triples start, so a route's block can be evaluated alone.
+  const routeStart = new Int32Array(layout.routes + 1);
+  for (let i = 0; i < data.group.length; i++) routeStart[data.group[i]! + 1]! += 1;
+  for (let r = 0; r < layout.routes; r++) routeStart[r + 1]! += routeStart[r]!;
+  for (let i = 1; i < data.group.length; i++) if (data.group[i]! < data.group[i - 1]!) throw new RangeError('triples must be sorted by route');
+  // Month-effect slot of each family parameter (-1 when it has none).
+  const effectSlot = new Int32Array(k).fill(-1);
+  layout.monthEffects.forEach((j, slot) => (effectSlot[j] = slot));
+
+  const eta = new Float64Array(k);
+  const runGrad = new Float64Array(k);
+  const nt = new Float64Array(3);
+
+  /**
+   * Likelihood of triples [from, to). Triples come in runs of one (route, month); everything
+   * that depends only on the parameters is computed once per run, so the per-flight work is
+   * a handful of exp/log calls. base(r) gives the offset of route r's parameters in `theta`,
+   * or -1 to read them from `phiOverride`. Gradients go to grad (route and month slots) or,
+   * with phiOverride, to gradPhi.
+   */
+  function likelihood(theta: Float64Array, from: number, to: number, phiOverride: Float64Array | null, grad: Float64Array | null, gradPhi: Float64Array | null): number {
+    const hasT = family === 'gumbel-t';
+    const df = hasT ? Math.exp(theta[layout.logDf]!) : 0;
+    // Student-t constants, once per call: the log normaliser and the parts of d/d df that do not depend on x.
+    const tConst = hasT ? logGamma((df + 1) / 2) - logGamma(df / 2) - 0.5 * Math.log(df * Math.PI) : 0;
+    const tDfConst = hasT ? 0.5 * (digamma((df + 1) / 2) - digamma(df / 2) - 1 / df) : 0;
+    let total = 0;
+    let gDf = 0;
+    let i = from;
+    while (i < to) {
+      const r = data.group[i]!;
+      const q = data.period[i]!;
+      let end = i + 1;
+      while (end < to && data.group[end] === r && data.period[end] === q) end++;
+      const base = layout.phi + r * k;
+      for (let j = 0; j < k; j++) {
+        let v = phiOverride ? phiOverride[j]! : theta[base + j]!;
+        const slot = effectSlot[j]!;
+        if (slot >= 0) v += theta[layout.delta + q * m + slot]!;
+        eta[j] = v;
+      }
+      const mu = eta[0]!;
+      const logBeta = eta[1]!;
+      const invBeta = Math.exp(-logBeta);
+      runGrad.fill(0);
+      if (family === 'gumbel') {
+        for (let t = i; t < end; t++) {
+          const n = data.count[t]!;
+          const z = (data.value[t]! - mu) * invBeta;
+          const ez = Math.exp(-z);
+          total += n * (-logBeta - z - ez);
+          runGrad[0]! += n * (1 - ez) * invBeta;
+          runGrad[1]! += n * (-1 + z * (1 - ez));
+        }
+      } else {
+        const w = 1 / (1 + Math.exp(-eta[4]!));
+        const logW = Math.log(w);
+        const log1mW = Math.log1p(-w);
+        const loc2 = eta[2]!;
+        const logScale2 = eta[3]!;
+        const invScale2 = Math.exp(-logScale2);
+        for (let t = i; t < end; t++) {
+          const n = data.count[t]!;
+          const x = data.value[t]!;
+          const z = (x - mu) * invBeta;
+          const ez = Math.exp(-z);
+          const a1 = log1mW - logBeta - z - ez;
+          let a2: number;
+          let d2a: number;
+          let d2b: number;
+          let d2df = 0;
+          if (hasT) {
+            const u = (x - loc2) * invScale2;
+            const u2 = u * u;
+            const qd = df + u2;
+            const log1 = Math.log1p(u2 / df);
+            a2 = logW + tConst - logScale2 - ((df + 1) / 2) * log1;
+            d2a = (df + 1) * u * invScale2 / qd;
+            d2b = -1 + ((df + 1) * u2) / qd;
+            d2df = df * (tDfConst - 0.5 * log1 + (0.5 * (df + 1) * u2) / (df * qd));
+          } else {
+            const z2 = (x - loc2) * invScale2;
+            const ez2 = Math.exp(-z2);
+            a2 = logW - logScale2 - z2 - ez2;
+            d2a = (1 - ez2) * invScale2;
+            d2b = -1 + z2 * (1 - ez2);
+          }
+          // log(e^a1 + e^a2) and the disrupted component's responsibility, with one exp and one log1p.
+          let lp: number;
+          let r2: number;
+          if (a1 >= a2) {
+            const e = Math.exp(a2 - a1);
+            lp = a1 + Math.log1p(e);
+            r2 = e / (1 + e);
+          } else {
+            const e = Math.exp(a1 - a2);
+            lp = a2 + Math.log1p(e);
+            r2 = 1 / (1 + e);
+          }
+          const r1 = 1 - r2;
+          total += n * lp;
+          runGrad[0]! += n * r1 * (1 - ez) * invBeta;
+          runGrad[1]! += n * r1 * (-1 + z * (1 - ez));
+          runGrad[2]! += n * r2 * d2a;
+          runGrad[3]! += n * r2 * d2b;
+          runGrad[4]! += n * (r2 - w);
+          gDf += n * r2 * d2df;
+        }
+      }
+      if (gradPhi) for (let j = 0; j < k; j++) gradPhi[j]! += runGrad[j]!;
+      if (grad) {
+        if (!phiOverride) for (let j = 0; j < k; j++) grad[base + j]! += runGrad[j]!;
+        for (let j = 0; j < k; j++) {
+          const slot = effectSlot[j]!;
+          if (slot >= 0) grad[layout.delta + q * m + slot]! += runGrad[j]!;
+        }
+      }
+      i = end;
+    }
+    if (grad && hasT) grad[layout.logDf]! += gDf;
+    return total;
+  }
+
+  function naturalLogDensityGrad(theta: Float64Array, grad: Float64Array): number {
+    grad.fill(0);
+    let lp = likelihood(theta, 0, data.group.length, null, grad, null);
+    // Route level: phi_r ~ N(pop + A_o + B_d, sd_route).
+    for (let r = 0; r < layout.routes; r++) {
+      const o = input.originOf[r]!;
+      const d = input.destinationOf[r]!;
+      for (let j = 0; j < k; j++) {
+        const pi = layout.phi + r * k + j;
+        const ai = layout.origin + o * k + j;
+        const bi = layout.destination + d * k + j;
+        const si = layout.logSdRoute + j;
+        lp += normalTerm(theta[pi]!, theta[layout.pop + j]! + theta[ai]! + theta[bi]!, theta[si]!, nt);
+        grad[pi]! += nt[0]!;
+        grad[layout.pop + j]! += nt[1]!;
+        grad[ai]! += nt[1]!;
+        grad[bi]! += nt[1]!;
+        grad[si]! += nt[2]!;
+      }
+    }
+    for (let a = 0; a < layout.airports; a++) {
+      for (let j = 0; j < k; j++) {
+        for (const [offset, sdOffset] of [
+          [layout.origin, layout.logSdOrigin],
+          [layout.destination, layout.logSdDestination],
+        ] as const) {
+          const xi = offset + a * k + j;
+          lp += normalTerm(theta[xi]!, 0, theta[sdOffset + j]!, nt);
+          grad[xi]! += nt[0]!;
+          grad[sdOffset + j]! += nt[2]!;
+        }
+      }
+    }
+    for (let q = 0; q < layout.periods; q++) {
+      for (let slot = 0; slot < m; slot++) {
+        const xi = layout.delta + q * m + slot;
+        lp += normalTerm(theta[xi]!, 0, theta[layout.logTau + slot]!, nt);
+        grad[xi]! += nt[0]!;
+        grad[layout.logTau + slot]! += nt[2]!;
+      }
+    }
+    const init = FAMILY_INIT[family];
+    const popSd = POP_PRIOR_SD[family];
+    for (let j = 0; j < k; j++) {
+      const z = (theta[layout.pop + j]! - init[j]!) / popSd[j]!;
+      lp -= 0.5 * z * z;
+      grad[layout.pop + j]! -= z / popSd[j]!;
+    }
+    const hyper = [layout.logSdRoute, layout.logSdOrigin, layout.logSdDestination];
+    for (const off of hyper) {
+      for (let j = 0; j < k; j++) {
+        const z = (theta[off + j]! - LOG_SD_PRIOR_MEAN) / LOG_SD_PRIOR_SD;
+        lp -= 0.5 * z * z;
+        grad[off + j]! -= z / LOG_SD_PRIOR_SD;
+      }
+    }
+    for (let slot = 0; slot < m; slot++) {
+      const z = (theta[layout.logTau + slot]! - LOG_SD_PRIOR_MEAN) / LOG_SD_PRIOR_SD;
+      lp -= 0.5 * z * z;
+      grad[layout.logTau + slot]! -= z / LOG_SD_PRIOR_SD;
+    }
+    if (layout.logDf >= 0) {
+      const z = (theta[layout.logDf]! - LOG_DF_PRIOR_MEAN) / LOG_DF_PRIOR_SD;
+      lp -= 0.5 * z * z;
+      grad[layout.logDf]! -= z / LOG_DF_PRIOR_SD;
+    }
+    return lp;
+  }
+
+  function routeBlockLogDensityGrad(theta: Float64Array, route: number, phi: Float64Array, grad: Float64Array): number {
+    grad.fill(0);
+    let lp = likelihood(theta, routeStart[route]!, routeStart[route + 1]!, phi, null, grad);
+    const o = input.originOf[route]!;
+    const d = input.destinationOf[route]!;
+    for (let j = 0; j < k; j++) {
+      const mean = theta[layout.pop + j]! + theta[layout.origin + o * k + j]! + theta[layout.destination + d * k + j]!;
+      lp += normalTerm(phi[j]!, mean, theta[layout.logSdRoute + j]!, nt);
+      grad[j]! += nt[0]!;
+    }
+    return lp;
+  }
+
+  function naturalInitialPoint(theta: Float64Array): void {
+    theta.fill(0);
+    const init = FAMILY_INIT[family];
+    for (let r = 0; r < layout.routes; r++) for (let j = 0; j < k; j++) theta[layout.phi + r * k + j] = init[j]!;
+    for (let j = 0; j < k; j++) {
+      theta[layout.pop + j] = init[j]!;
+      theta[layout.logSdRoute + j] = LOG_SD_PRIOR_MEAN;
+      theta[layout.logSdOrigin + j] = LOG_SD_PRIOR_MEAN;
+      theta[layout.logSdDestination + j] = LOG_SD_PRIOR_MEAN;
+    }
+    for (let slot = 0; slot < m; slot++) theta[layout.logTau + slot] = LOG_SD_PRIOR_MEAN;
+    if (layout.logDf >= 0) theta[layout.logDf] = Math.log(3);
+  }
+
+  const scale = coordinateScales(family, layout, input);
+  const natural = new Float64Array(layout.dim);
+  const toNatural = (theta: Float64Array): Float64Array => theta.map((x, i) => x / scale[i]!);
+  const fromNatural = (nat: Float64Array): Float64Array => nat.map((x, i) => x * scale[i]!);
+  function logDensityGrad(theta: Float64Array, grad: Float64Array): number {
+    for (let i = 0; i < layout.dim; i++) natural[i] = theta[i]! / scale[i]!;
+    const lp = naturalLogDensityGrad(natural, grad);
+    for (let i = 0; i < layout.dim; i++) grad[i]! /= scale[i]!;
+    return lp;
+  }
+  function initialPoint(theta: Float64Array): void {
+    naturalInitialPoint(theta);
+    for (let i = 0; i < layout.dim; i++) theta[i]! *= scale[i]!;
+  }
+  return { dim: layout.dim, names, logDensityGrad, naturalLogDensityGrad, layout, scale, toNatural, fromNatural, routeBlockLogDensityGrad, initialPoint };
+}
+
+function coordinateScales(family: TailFamily, layout: TailMixtureLayout, input: TailMixtureData): Float64Array {
+  const { k } = layout;
+  const m = layout.monthEffects.length;
+  const scale = new Float64Array(layout.dim).fill(1);
+  const fisher = FISHER_SCALE[family];
+  const pool = POOL_SCALE[family];
+  const routeFlights = new Float64Array(layout.routes);
+  const periodFlights = new Float64Array(Math.max(layout.periods, 1));
+  let total = 0;
+  for (let i = 0; i < input.data.group.length; i++) {
+    const n = input.data.count[i]!;
+    routeFlights[input.data.group[i]!]! += n;
+    periodFlights[input.data.period[i]!]! += n;
+    total += n;
+  }
+  const routesFrom = new Float64Array(layout.airports);
+  const routesTo = new Float64Array(layout.airports);
+  for (let r = 0; r < layout.routes; r++) {
+    routesFrom[input.originOf[r]!]! += 1;
+    routesTo[input.destinationOf[r]!]! += 1;
+  }
+  for (let r = 0; r < layout.routes; r++) for (let j = 0; j < k; j++) scale[layout.phi + r * k + j] = fisher[j]! * Math.sqrt(routeFlights[r]! + 1);
+  for (let a = 0; a < layout.airports; a++) {
+    for (let j = 0; j < k; j++) {
+      scale[layout.origin + a * k + j] = pool[j]! * Math.sqrt(routesFrom[a]! + 1);
+      scale[layout.destination + a * k + j] = pool[j]! * Math.sqrt(routesTo[a]! + 1);
+    }
+  }
+  for (let q = 0; q < layout.periods; q++) layout.monthEffects.forEach((j, slot) => (scale[layout.delta + q * m + slot] = fisher[j]! * Math.sqrt(periodFlights[q]! + 1)));
+  for (let j = 0; j < k; j++) {
+    scale[layout.pop + j] = pool[j]! * Math.sqrt(layout.routes + 1);
+    scale[layout.logSdRoute + j] = Math.sqrt(2 * layout.routes + 1);
+    scale[layout.logSdOrigin + j] = Math.sqrt(2 * layout.airports + 1);
+    scale[layout.logSdDestination + j] = Math.sqrt(2 * layout.airports + 1);
+  }
+  for (let slot = 0; slot < m; slot++) scale[layout.logTau + slot] = Math.sqrt(2 * layout.periods + 1);
+  if (layout.logDf >= 0) scale[layout.logDf] = 0.05 * Math.sqrt(total + 1);
+  return scale;
+}

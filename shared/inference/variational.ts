@@ -1,0 +1,357 @@
+// The variational engine behind ADVI (mean-field and full-rank) and minibatch stochastic VI:
+// Gaussian families in unconstrained space, reparameterised Monte Carlo ELBO gradients, and a
+// step-size schedule that needs no hand tuning.
+//
+// ADVI: Kucukelbir, Tran, Ranganath, Gelman & Blei (2017), "Automatic Differentiation
+// Variational Inference", JMLR 18(14). Adam: Kingma & Ba (2015).
+// The schedule (our design, documented here because it is not ADVI's own): Adam-normalised
+// steps, scaled per coordinate by the approximation's current sd so that a step means "a
+// fraction of a posterior sd" whatever the data size; start at the MAP with sds from the
+// L-BFGS inverse Hessian; every window of iterations compare the mean ELBO with the last
+// window's, and when it has stopped improving beyond its Monte Carlo noise halve the step;
+// after `reductions` halvings the fit has converged, and the result is the average of the
+// last window's iterates (Polyak-Ruppert averaging), which removes most of the step noise.
+import { FitDivergedError, FitLoop, type FitMethod, type FitOptions, type FitResult } from './fit-types';
+import { maximiseLbfgs } from './map';
+import type { Model } from './model';
+import type { Rng } from './rng';
+
+export interface VariationalOptions extends FitOptions {
+  /** Monte Carlo draws per gradient (default 1, as in ADVI). */
+  readonly gradSamples?: number;
+  /** Iterations per convergence window (default 50). */
+  readonly window?: number;
+  /** Initial step, in units of the current sd per iteration (default 0.1). */
+  readonly initialStep?: number;
+  /** Halvings of the step before the fit counts as converged (default 4). */
+  readonly reductions?: number;
+  /** Start from the MAP and its Laplace sds (default true). Otherwise from `init`/the model's start with sd 1. */
+  readonly initFromMap?: boolean;
+  /** Iteration cap for that MAP start (default 1000). */
+  readonly mapMaxIterations?: number;
+}
+
+/** A Gaussian approximation q(θ; λ) with θ = T(λ, ε), ε ~ N(0, I). */
+export interface GaussianFamily {
+  readonly kind: 'meanfield' | 'fullrank';
+  readonly dim: number;
+  /** λ, the variational parameters (mutated by the optimiser). */
+  readonly params: Float64Array;
+  /** Per-parameter step scale (sd units for locations, 1 for log-sds). */
+  stepScale(out: Float64Array): void;
+  /** θ = T(λ, ε). */
+  transform(params: Float64Array, eps: Float64Array, theta: Float64Array): void;
+  /** Adds weight * (∂θ/∂λ)ᵀ g to out: the data part of the reparameterised gradient. */
+  accumulate(params: Float64Array, gTheta: Float64Array, eps: Float64Array, weight: number, out: Float64Array): void;
+  /** Entropy up to a constant, and its gradient added to out. */
+  entropy(params: Float64Array, out: Float64Array | null): number;
+  mean(params: Float64Array, out: Float64Array): void;
+  sd(params: Float64Array, out: Float64Array): void;
+  /** log q(θ) including the normalising constant. */
+  logDensity(params: Float64Array, theta: Float64Array): number;
+}
+
+const LOG_2PI = Math.log(2 * Math.PI);
+
+export function meanFieldFamily(dim: number): GaussianFamily {
+  const params = new Float64Array(2 * dim);
+  return {
+    kind: 'meanfield',
+    dim,
+    params,
+    stepScale(out) {
+      for (let i = 0; i < dim; i++) {
+        out[i] = Math.exp(params[dim + i]!);
+        out[dim + i] = 1;
+      }
+    },
+    transform(p, eps, theta) {
+      for (let i = 0; i < dim; i++) theta[i] = p[i]! + Math.exp(p[dim + i]!) * eps[i]!;
+    },
+    accumulate(p, g, eps, w, out) {
+      for (let i = 0; i < dim; i++) {
+        out[i]! += w * g[i]!;
+        out[dim + i]! += w * g[i]! * eps[i]! * Math.exp(p[dim + i]!);
+      }
+    },
+    entropy(p, out) {
+      let h = 0;
+      for (let i = 0; i < dim; i++) {
+        h += p[dim + i]!;
+        if (out) out[dim + i]! += 1;
+      }
+      return h;
+    },
+    mean(p, out) {
+      for (let i = 0; i < dim; i++) out[i] = p[i]!;
+    },
+    sd(p, out) {
+      for (let i = 0; i < dim; i++) out[i] = Math.exp(p[dim + i]!);
+    },
+    logDensity(p, theta) {
+      let s = -0.5 * dim * LOG_2PI;
+      for (let i = 0; i < dim; i++) {
+        const z = (theta[i]! - p[i]!) * Math.exp(-p[dim + i]!);
+        s -= 0.5 * z * z + p[dim + i]!;
+      }
+      return s;
+    },
+  };
+}
+
+/** Packed row-major lower triangle: entry (i, j), j <= i, lives at dim + i(i+1)/2 + j; diagonals are logs. */
+export function fullRankFamily(dim: number): GaussianFamily {
+  const tri = (dim * (dim + 1)) / 2;
+  const params = new Float64Array(dim + tri);
+  const at = (i: number, j: number): number => dim + (i * (i + 1)) / 2 + j;
+  return {
+    kind: 'fullrank',
+    dim,
+    params,
+    stepScale(out) {
+      for (let i = 0; i < dim; i++) {
+        let v = 0;
+        for (let j = 0; j < i; j++) v += params[at(i, j)]! ** 2;
+        v += Math.exp(2 * params[at(i, i)]!);
+        out[i] = Math.sqrt(v);
+        // Off-diagonals move in units of the conditional sd L_ii: in units of the marginal sd
+        // their step noise swamps narrow conditional directions (hierarchical ridges).
+        const conditional = Math.exp(params[at(i, i)]!);
+        for (let j = 0; j < i; j++) out[at(i, j)] = conditional;
+        out[at(i, i)] = 1;
+      }
+    },
+    transform(p, eps, theta) {
+      for (let i = 0; i < dim; i++) {
+        const row = dim + (i * (i + 1)) / 2;
+        let s = p[i]! + Math.exp(p[row + i]!) * eps[i]!;
+        for (let j = 0; j < i; j++) s += p[row + j]! * eps[j]!;
+        theta[i] = s;
+      }
+    },
+    accumulate(p, g, eps, w, out) {
+      for (let i = 0; i < dim; i++) {
+        const row = dim + (i * (i + 1)) / 2;
+        const gi = w * g[i]!;
+        out[i]! += gi;
+        for (let j = 0; j < i; j++) out[row + j]! += gi * eps[j]!;
+        out[row + i]! += gi * eps[i]! * Math.exp(p[row + i]!);
+      }
+    },
+    entropy(p, out) {
+      let h = 0;
+      for (let i = 0; i < dim; i++) {
+        h += p[at(i, i)]!;
+        if (out) out[at(i, i)]! += 1;
+      }
+      return h;
+    },
+    mean(p, out) {
+      for (let i = 0; i < dim; i++) out[i] = p[i]!;
+    },
+    sd(p, out) {
+      for (let i = 0; i < dim; i++) {
+        let v = Math.exp(2 * p[at(i, i)]!);
+        for (let j = 0; j < i; j++) v += p[at(i, j)]! ** 2;
+        out[i] = Math.sqrt(v);
+      }
+    },
+    logDensity(p, theta) {
+      // Forward substitution L z = θ - μ.
+      const z = new Float64Array(dim);
+      let s = -0.5 * dim * LOG_2PI;
+      for (let i = 0; i < dim; i++) {
+        const row = dim + (i * (i + 1)) / 2;
+        let r = theta[i]! - p[i]!;
+        for (let j = 0; j < i; j++) r -= p[row + j]! * z[j]!;
+        z[i] = r * Math.exp(-p[row + i]!);
+        s -= 0.5 * z[i]! * z[i]! + p[row + i]!;
+      }
+      return s;
+    },
+  };
+}
+
+/** Where the gradient of log p comes from: the full data or a minibatch estimate. */
+export type GradientSource = (theta: Float64Array, grad: Float64Array, rng: Rng) => number;
+
+export interface VariationalRun {
+  readonly method: FitMethod;
+  readonly family: GaussianFamily;
+  readonly gradient: GradientSource;
+  /** Extra diagnostics the caller adds (e.g. batch size). */
+  readonly diagnostics?: Readonly<Record<string, number | string | boolean>>;
+}
+
+function setLogSd(family: GaussianFamily, sd: Float64Array): void {
+  const d = family.dim;
+  for (let i = 0; i < d; i++) {
+    const idx = family.kind === 'meanfield' ? d + i : d + (i * (i + 1)) / 2 + i;
+    family.params[idx] = Math.log(sd[i]!);
+  }
+}
+
+/**
+ * Optimise the ELBO of `run.family` for `model`. Throws FitDivergedError on non-finite
+ * gradients or parameters, or when every retry of a draw lands where log p is not finite.
+ */
+export async function runVariational(model: Model, options: VariationalOptions, run: VariationalRun): Promise<FitResult> {
+  const { family, method } = run;
+  const rng = options.rng;
+  const d = model.dim;
+  const P = family.params.length;
+  const maxIter = options.maxIterations ?? 10_000;
+  const window = Math.max(5, Math.floor(options.window ?? 50));
+  const S = Math.max(1, Math.floor(options.gradSamples ?? 1));
+  const maxReductions = Math.max(0, Math.floor(options.reductions ?? 4));
+  const relTol = options.tolerance ?? 1e-9;
+  const loop = new FitLoop(method, options, maxIter);
+
+  // Start: the MAP and its Laplace sds (clamped: L-BFGS curvature is crude in unexplored directions).
+  const sd0 = new Float64Array(d).fill(1);
+  let mapIterations = 0;
+  if (options.initFromMap ?? true) {
+    const mapLoop = new FitLoop(method, { ...options, onProgress: undefined }, options.mapMaxIterations ?? 1000);
+    const map = await maximiseLbfgs(model, options, mapLoop);
+    mapIterations = map.iterations;
+    family.params.set(map.mode, 0);
+    for (let i = 0; i < d; i++) {
+      const v = map.inverseHessianDiagonal[i]!;
+      sd0[i] = v > 0 ? Math.min(1, Math.max(1e-6, Math.sqrt(v))) : 0.1;
+    }
+  } else {
+    const init = options.init ?? new Float64Array(d);
+    if (!options.init && model.initialPoint) model.initialPoint(init);
+    if (init.length !== d) throw new RangeError(`init has length ${init.length}, model.dim is ${d}`);
+    family.params.set(init, 0);
+  }
+  setLogSd(family, sd0);
+
+  const params = family.params;
+  const grad = new Float64Array(P);
+  const scale = new Float64Array(P);
+  const m1 = new Float64Array(P);
+  const m2 = new Float64Array(P);
+  const eps = new Float64Array(d);
+  const theta = new Float64Array(d);
+  const gTheta = new Float64Array(d);
+  const windowSum = new Float64Array(P);
+  const averaged = new Float64Array(P);
+  const beta1 = 0.9;
+  const beta2 = 0.999;
+  let step = options.initialStep ?? 0.1;
+  let reductions = 0;
+  let winElbo = 0;
+  let winElboSq = 0;
+  let prevMean = NaN;
+  let prevVar = NaN;
+  let lastMean = NaN;
+  let lastSe = NaN;
+  let retries = 0;
+  let converged = false;
+  let iter = 0;
+  let haveAverage = false;
+
+  for (; iter < maxIter; iter++) {
+    grad.fill(0);
+    let elbo = 0;
+    for (let s = 0; s < S; s++) {
+      let lp = NaN;
+      for (let attempt = 0; attempt < 10; attempt++) {
+        for (let i = 0; i < d; i++) eps[i] = rng.normal();
+        family.transform(params, eps, theta);
+        lp = run.gradient(theta, gTheta, rng);
+        if (Number.isFinite(lp)) break;
+        retries++;
+      }
+      if (!Number.isFinite(lp)) throw new FitDivergedError(method, iter, 'ten draws in a row from the approximation had a non-finite log density');
+      family.accumulate(params, gTheta, eps, 1 / S, grad);
+      elbo += lp / S;
+    }
+    elbo += family.entropy(params, grad);
+    family.stepScale(scale);
+    const c1 = 1 - beta1 ** (iter + 1);
+    const c2 = 1 - beta2 ** (iter + 1);
+    for (let k = 0; k < P; k++) {
+      const g = grad[k]!;
+      if (!Number.isFinite(g)) throw new FitDivergedError(method, iter, `the ELBO gradient is not finite (parameter ${k})`);
+      m1[k] = beta1 * m1[k]! + (1 - beta1) * g;
+      m2[k] = beta2 * m2[k]! + (1 - beta2) * g * g;
+      const upd = (step * scale[k]! * (m1[k]! / c1)) / (Math.sqrt(m2[k]! / c2) + 1e-12);
+      params[k]! += upd;
+      windowSum[k]! += params[k]!;
+    }
+    winElbo += elbo;
+    winElboSq += elbo * elbo;
+    await loop.tick(iter, Number.isNaN(lastMean) ? elbo : lastMean);
+
+    if ((iter + 1) % window === 0) {
+      for (let k = 0; k < P; k++) {
+        const v = windowSum[k]! / window;
+        if (!Number.isFinite(v)) throw new FitDivergedError(method, iter, `variational parameter ${k} is not finite`);
+        averaged[k] = v;
+      }
+      haveAverage = true;
+      windowSum.fill(0);
+      const mean = winElbo / window;
+      // Monte Carlo variance of the window mean (draws treated as independent).
+      const variance = Math.max(0, winElboSq / window - mean * mean) / window;
+      winElbo = 0;
+      winElboSq = 0;
+      lastMean = mean;
+      lastSe = Math.sqrt(variance);
+      if (!Number.isNaN(prevMean)) {
+        const change = mean - prevMean;
+        const noise = 2 * Math.sqrt(variance + prevVar);
+        const stalled = change < noise || Math.abs(change) <= relTol * Math.abs(mean);
+        if (stalled) {
+          if (reductions >= maxReductions) { converged = true; iter++; break; }
+          reductions++;
+          step *= 0.5;
+        }
+      }
+      prevMean = mean;
+      prevVar = variance;
+    }
+  }
+
+  const finalParams = haveAverage ? averaged : Float64Array.from(params);
+  const mean = new Float64Array(d);
+  const sd = new Float64Array(d);
+  family.mean(finalParams, mean);
+  family.sd(finalParams, sd);
+  const objective = Number.isNaN(lastMean) ? NaN : lastMean;
+  const elapsedMs = loop.finish(iter, objective);
+  const snapshot = Float64Array.from(finalParams);
+  return {
+    method,
+    names: model.names,
+    iterations: iter,
+    elapsedMs,
+    converged,
+    objective,
+    mean,
+    sd,
+    draws: (drawRng, count) => {
+      const out = new Float64Array(count * d);
+      const e = new Float64Array(d);
+      const t = new Float64Array(d);
+      for (let c = 0; c < count; c++) {
+        for (let i = 0; i < d; i++) e[i] = drawRng.normal();
+        family.transform(snapshot, e, t);
+        out.set(t, c * d);
+      }
+      return out;
+    },
+    logApproxDensity: (t) => family.logDensity(snapshot, t),
+    diagnostics: {
+      elbo: objective,
+      elboMonteCarloSe: lastSe,
+      finalStep: step,
+      stepReductions: reductions,
+      mapIterations,
+      nonFiniteDrawRetries: retries,
+      ...(run.diagnostics ?? {}),
+    },
+  };
+}
