@@ -9,6 +9,7 @@
 // adaptation schedule and the extra checks across merged subtrees follow the Stan
 // reference manual, "MCMC sampling" chapter (Stan Development Team).
 import { effectiveSampleSizeBulk, effectiveSampleSizeTail, splitRhat } from './diagnostics/convergence';
+import { RunningMoments } from './diagnostics/running-moments';
 import { FitDivergedError, FitLoop, initialPoint, type FitOptions, type FitResult } from './fit-types';
 import type { Model } from './model';
 import type { Rng } from './rng';
@@ -416,37 +417,17 @@ export function warmupWindowEnds(warmup: number): { start: number; ends: number[
   return { start: init, ends, stop };
 }
 
-/** Welford running variance over positions in one slow window. */
-class VarianceEstimator {
-  private n = 0;
-  private readonly mean: Float64Array;
-  private readonly m2: Float64Array;
-
-  constructor(dim: number) {
-    this.mean = new Float64Array(dim);
-    this.m2 = new Float64Array(dim);
+/**
+ * The window's variance, shrunk toward 1e-3 as Stan does so that short windows stay
+ * well-posed; restarts the estimator for the next window.
+ */
+function regularisedVariance(moments: RunningMoments, out: Float64Array): void {
+  const n = moments.count;
+  for (let i = 0; i < out.length; i++) {
+    const v = n > 1 ? moments.variance(i) : 1;
+    out[i] = (n / (n + 5)) * v + 1e-3 * (5 / (n + 5));
   }
-
-  add(q: Float64Array): void {
-    this.n++;
-    for (let i = 0; i < q.length; i++) {
-      const d = q[i]! - this.mean[i]!;
-      this.mean[i] = this.mean[i]! + d / this.n;
-      this.m2[i] = this.m2[i]! + d * (q[i]! - this.mean[i]!);
-    }
-  }
-
-  /** The variance, shrunk toward 1e-3 as Stan does so that short windows stay well-posed. */
-  regularised(out: Float64Array): void {
-    const n = this.n;
-    for (let i = 0; i < out.length; i++) {
-      const v = n > 1 ? this.m2[i]! / (n - 1) : 1;
-      out[i] = (n / (n + 5)) * v + 1e-3 * (5 / (n + 5));
-    }
-    this.n = 0;
-    this.mean.fill(0);
-    this.m2.fill(0);
-  }
+  moments.reset();
 }
 
 function positiveInt(name: string, value: number, min: number): number {
@@ -547,7 +528,7 @@ export async function nuts(model: Model, options: NutsOptions): Promise<NutsResu
     if (!started) throw new FitDivergedError('nuts', iteration, `no usable step size found for chain ${c + 1}; the posterior may be improper or discontinuous`);
     const adapter = new StepSizeAdapter(delta);
     adapter.restart(kernel.stepSize);
-    const estimator = new VarianceEstimator(dim);
+    const estimator = new RunningMoments(dim);
     let nextWindow = 0;
     let warmupDivergences = 0;
     let divergences = 0;
@@ -562,10 +543,10 @@ export async function nuts(model: Model, options: NutsOptions): Promise<NutsResu
         if (kernel.divergent) warmupDivergences++;
         kernel.stepSize = adapter.learn(kernel.acceptStat);
         if (adaptMetric && t >= windows.start && t < windows.stop) {
-          estimator.add(kernel.current.q);
+          estimator.push(kernel.current.q);
           if (t === windows.ends[nextWindow]) {
             nextWindow++;
-            estimator.regularised(variance);
+            regularisedVariance(estimator, variance);
             kernel.setInverseMetric(variance);
             kernel.findStepSize();
             adapter.restart(kernel.stepSize);

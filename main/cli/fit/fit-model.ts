@@ -43,30 +43,3 @@ export interface Moments {
   readonly mean: number;
   readonly sd: number;
 }
-
-/** Welford accumulation of several quantities at once, one slot each. */
-export class MomentsAccumulator {
-  private n = 0;
-  private readonly mean: Float64Array;
-  private readonly m2: Float64Array;
-
-  constructor(slots: number) {
-    this.mean = new Float64Array(slots);
-    this.m2 = new Float64Array(slots);
-  }
-
-  /** Call once per draw, then `add(slot, value)` for each slot. */
-  nextDraw(): void {
-    this.n++;
-  }
-
-  add(slot: number, value: number): void {
-    const d = value - this.mean[slot]!;
-    this.mean[slot] = this.mean[slot]! + d / this.n;
-    this.m2[slot] = this.m2[slot]! + d * (value - this.mean[slot]!);
-  }
-
-  moments(slot: number): Moments {
-    return { mean: this.mean[slot]!, sd: this.n > 1 ? Math.sqrt(this.m2[slot]! / (this.n - 1)) : 0 };
-  }
-}

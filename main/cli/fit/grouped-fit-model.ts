@@ -8,7 +8,8 @@ import type { Rng } from '../../../shared/inference/rng';
 import { collapseWeighted } from '../../../shared/inference/weighted-data';
 import { CliFailure } from '../io';
 import { findColumn, numberCell, textCell, type CsvTable } from './csv-columns';
-import { MomentsAccumulator, type FitModelAdapter, type FlagValues, type Moments, type PreparedFit } from './fit-model';
+import { RunningMoments } from '../../../shared/inference/diagnostics/running-moments';
+import type { FitModelAdapter, FlagValues, Moments, PreparedFit } from './fit-model';
 import { posteriorDraws } from './posterior-draws';
 
 export interface GroupSummary {
@@ -31,20 +32,22 @@ function formatMoments(m: Moments): string {
 export function groupPosteriorMoments(model: HierarchicalDelayModel, result: FitResult, rng: Rng): { location: Moments; scale: Moments }[] {
   const { draws, count } = posteriorDraws(result, rng);
   const groupCount = model.groupCount;
-  const acc = new MomentsAccumulator(2 * groupCount);
+  const acc = new RunningMoments(2 * groupCount);
   const theta = new Float64Array(model.dim);
+  const values = new Float64Array(2 * groupCount);
   for (let s = 0; s < count; s++) {
     theta.set(draws.subarray(s * model.dim, (s + 1) * model.dim));
-    acc.nextDraw();
     for (let g = 0; g < groupCount; g++) {
       const p = model.groupParameters(theta, g);
-      acc.add(2 * g, p.location);
-      acc.add(2 * g + 1, p.scale);
+      values[2 * g] = p.location;
+      values[2 * g + 1] = p.scale;
     }
+    acc.push(values);
   }
+  const moments = (slot: number): Moments => ({ mean: acc.mean(slot), sd: count > 1 ? Math.sqrt(acc.variance(slot)) : 0 });
   return Array.from({ length: groupCount }, (_, g) => {
-    const location = acc.moments(2 * g);
-    const scale = acc.moments(2 * g + 1);
+    const location = moments(2 * g);
+    const scale = moments(2 * g + 1);
     if (result.method !== 'map') return { location, scale };
     const mode = model.groupParameters(result.mean, g);
     return { location: { mean: mode.location, sd: location.sd }, scale: { mean: mode.scale, sd: scale.sd } };

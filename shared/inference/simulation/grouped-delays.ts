@@ -49,3 +49,26 @@ export function simulateGroupedDelays(groups: readonly GumbelGroup[], perGroup: 
   });
   return { groupCount: G, group, value, count };
 }
+
+/** What a grouped predictive simulator needs: each group's delay distribution under theta. */
+export interface GroupDistributions {
+  readonly groupCount: number;
+  sampleGroup(theta: Float64Array, group: number, rng: Rng): number;
+}
+
+/**
+ * A posterior predictive Simulator for grouped data: `perGroup[g]` draws for group g, groups
+ * one after another (the layout of the output row), rounded to the minute when `round`.
+ */
+export function groupedSimulator(groups: GroupDistributions, perGroup: readonly number[], round: boolean): (theta: Float64Array, rng: Rng, out: Float64Array) => void {
+  if (perGroup.length !== groups.groupCount) throw new RangeError(`perGroup has ${perGroup.length} entries for ${groups.groupCount} groups`);
+  return (theta, rng, out) => {
+    let k = 0;
+    for (let g = 0; g < perGroup.length; g++) {
+      for (let i = 0; i < perGroup[g]!; i++) {
+        const v = groups.sampleGroup(theta, g, rng);
+        out[k++] = round ? Math.round(v) : v;
+      }
+    }
+  };
+}

@@ -1,8 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { Model } from '../../../../shared/inference/model';
 import { checkVariationalFit, fitGeneralisedPareto, paretoKThreshold, paretoSmooth } from '../../../../shared/inference/diagnostics/psis';
 import { createRng } from '../../../../shared/inference/rng';
+import { correlatedGaussian } from '../nuts-targets';
 
 interface PsisCase {
   name: string;
@@ -63,22 +63,6 @@ describe('paretoSmooth edge cases', () => {
   });
 });
 
-// A correlated Gaussian target: log N(x; 0, Sigma) with unit variances and correlation rho.
-function correlatedGaussian(rho: number): Model {
-  const det = 1 - rho * rho;
-  return {
-    dim: 2,
-    names: ['x', 'y'],
-    logDensityGrad(t, g) {
-      const x = t[0]!;
-      const y = t[1]!;
-      g[0] = -(x - rho * y) / det;
-      g[1] = -(y - rho * x) / det;
-      return (-0.5 * (x * x - 2 * rho * x * y + y * y)) / det;
-    },
-  };
-}
-
 // A bivariate Gaussian approximation N(0, L L^T), L lower-triangular 2 x 2 (row-major).
 function gaussian2(l: [number, number, number]) {
   const [a, b, c] = l;
@@ -104,7 +88,7 @@ function gaussian2(l: [number, number, number]) {
 describe('checkVariationalFit (Yao et al. 2018)', () => {
   it('calls the exact full-rank Gaussian good and a mean-field fit of a rho = 0.95 posterior unreliable', () => {
     const rho = 0.95;
-    const model = correlatedGaussian(rho);
+    const model = correlatedGaussian(rho, 1, 1);
     const exact = checkVariationalFit(model, gaussian2([1, rho, Math.sqrt(1 - rho * rho)]), createRng(1), 2000);
     expect(exact.verdict).toBe('good');
     // The mean-field optimum for a Gaussian has sd = sqrt(1 - rho^2): too narrow.
@@ -116,6 +100,6 @@ describe('checkVariationalFit (Yao et al. 2018)', () => {
 
   it('rejects draws of the wrong size', () => {
     const wrong = { draws: (_r: unknown, n: number) => new Float64Array(3 * n), logApproxDensity: () => 0 };
-    expect(() => checkVariationalFit(correlatedGaussian(0), wrong, createRng(1))).toThrow(RangeError);
+    expect(() => checkVariationalFit(correlatedGaussian(0, 1, 1), wrong, createRng(1))).toThrow(RangeError);
   });
 });
