@@ -6,6 +6,7 @@
 import type { PosteriorSource } from '../delay/predictive';
 import { centralInterval, ConnectionPair, differenceQuantile, makeCurvePoints, MAX_LAYOVER_MINUTES, minimumLayover } from './connection-probability';
 import { RouteTables } from './delay-table';
+import { MAX_JOINT_DRAWS } from './score-trips';
 import type { MakeCurve, MarginDistribution } from './types';
 
 export interface CurveRoutes {
@@ -16,7 +17,7 @@ export interface CurveRoutes {
 }
 
 /** Joint draws used for a pair alone: the same rule as scoreTrips for routes with equal draw counts. */
-export function connectionPairFor(source: PosteriorSource, routes: CurveRoutes, maxDraws = 100): ConnectionPair {
+export function connectionPairFor(source: PosteriorSource, routes: CurveRoutes, maxDraws = MAX_JOINT_DRAWS): ConnectionPair {
   const arrival = source.route(routes.inbound.from, routes.inbound.to, 'arrival');
   const departure = source.route(routes.outbound.from, routes.outbound.to, 'departure');
   const draws = Math.min(maxDraws, arrival.drawCount, departure.drawCount);

@@ -24,12 +24,20 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
   const w = departure.weight;
   const fa = arrival.cdf;
   let sum = 0;
-  for (let i = iStart; i < iEnd; i++) sum += (w[i] ?? 0) * (fa[i + shift] ?? 0);
+  // The whole-minute core of D, then its sparse tail nodes (the weights between them are zero).
+  const coreEnd = Math.min(iEnd, departure.coreLength);
+  for (let i = iStart; i < coreEnd; i++) sum += w[i]! * fa[i + shift]!;
+  const tail = departure.tailIndex;
+  for (let k = 0; k < tail.length; k++) {
+    const i = tail[k]!;
+    if (i >= iEnd) break;
+    if (i >= iStart) sum += w[i]! * fa[i + shift]!;
+  }
   // Points of D beyond A's grid (F_A there is ~1), and D's own mass beyond its grid.
   const firstAbove = Math.max(iStart, iEnd);
   if (firstAbove < nD || departure.highMass > 0) {
     if (arrival.heavyTail) {
-      for (let i = firstAbove; i < nD; i++) sum += (w[i] ?? 0) * arrival.cdfAt(m + departure.lo + i);
+      for (let i = firstAbove; i < nD; i++) if (w[i]! > 0) sum += w[i]! * arrival.cdfAt(m + departure.lo + i);
       sum += departure.highMass * arrival.cdfAt(m + departure.hi);
     } else {
       // weightAbove already ends with D's mass beyond its grid.

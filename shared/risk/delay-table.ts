@@ -49,6 +49,10 @@ export class DrawTable {
    * "The exponentially convergent trapezoidal rule", SIAM Review 56, 2014).
    */
   readonly weight: Float64Array;
+  /** Grid points 0..coreLength-1 are the whole-minute core; beyond it only tailIndex carry weight. */
+  readonly coreLength: number;
+  /** Indices past the core with non-zero weight, ascending (role 'density'). */
+  readonly tailIndex: Int32Array;
   /** weightAbove[i] = sum of weight[k] for k >= i, plus highMass; weightAbove[n] = highMass. */
   readonly weightAbove: Float64Array;
   /** P(X <= lo). */
@@ -73,6 +77,7 @@ export class DrawTable {
     this.hi = hi;
     this.cdf = new Float64Array(n);
     this.weight = new Float64Array(role === 'density' ? n : 0);
+    this.coreLength = core - lo + 1;
     const step = Math.max(1, Math.ceil((hi - core) / TAIL_NODES));
     const tail: number[] = [];
     for (let x = core; x < hi; x += step) tail.push(x);
@@ -111,6 +116,7 @@ export class DrawTable {
     }
     for (let i = 1; i < n; i++) if ((this.cdf[i] ?? 0) < (this.cdf[i - 1] ?? 0)) this.cdf[i] = this.cdf[i - 1] ?? 0;
     this.heavyTail = this.highMass > HIGH_TAIL;
+    this.tailIndex = Int32Array.from(role === 'density' ? tail.slice(1).map((x) => x - lo) : []);
     this.beyondHi = Math.max(this.cdf[n - 1] ?? 1, 1 - this.highMass);
     this.weightAbove = new Float64Array(this.weight.length + 1);
     this.weightAbove[this.weight.length] = this.highMass;
@@ -131,20 +137,39 @@ export class DrawTable {
   inverse(u: number): number {
     const cdf = this.cdf;
     const n = cdf.length;
-    if (u <= (cdf[0] ?? 0)) return invertByBisection(this.dist, u, SEARCH_LO, this.lo);
-    if (u > (cdf[n - 1] ?? 1)) return invertByBisection(this.dist, u, this.hi, SEARCH_HI);
-    let a = 0;
-    let b = n - 1;
+    if (u <= cdf[0]!) return invertByBisection(this.dist, u, SEARCH_LO, this.lo);
+    if (u > cdf[n - 1]!) return invertByBisection(this.dist, u, this.hi, SEARCH_HI);
+    // A guide table (Chen & Asau 1974) narrows the search to the indices of u's bucket.
+    const guide = (this.guide ??= buildGuide(cdf));
+    const bucket = Math.min(GUIDE_BUCKETS - 1, Math.floor(u * GUIDE_BUCKETS));
+    let a = Math.max(0, guide[bucket]! - 1);
+    let b = guide[bucket + 1]!;
     while (b - a > 1) {
       const mid = (a + b) >>> 1;
-      if ((cdf[mid] ?? 0) < u) a = mid;
+      if (cdf[mid]! < u) a = mid;
       else b = mid;
     }
-    const fa = cdf[a] ?? 0;
-    const fb = cdf[b] ?? 1;
+    const fa = cdf[a]!;
+    const fb = cdf[b]!;
     const t = fb > fa ? (u - fa) / (fb - fa) : 0;
     return this.lo + a + t;
   }
+
+  private guide: Int32Array | undefined;
+}
+
+const GUIDE_BUCKETS = 64;
+
+// guide[b] = the first index i with cdf[i] >= b / GUIDE_BUCKETS (n - 1 when none), b = 0..GUIDE_BUCKETS.
+function buildGuide(cdf: Float64Array): Int32Array {
+  const n = cdf.length;
+  const guide = new Int32Array(GUIDE_BUCKETS + 1);
+  let i = 0;
+  for (let b = 0; b <= GUIDE_BUCKETS; b++) {
+    while (i < n - 1 && cdf[i]! < b / GUIDE_BUCKETS) i++;
+    guide[b] = i;
+  }
+  return guide;
 }
 
 function checked(value: number, x: number, what: string): number {

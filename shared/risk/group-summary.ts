@@ -19,17 +19,19 @@ export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly Trip
   const travelers = travelerIndex.size;
   const chosen = trips.map((t, k) => ({ trip: t, sim: sims[k] })).filter((x) => x.trip.optionRank === 1);
 
-  // Per simulation, which travellers missed; then the count.
+  // Per simulation, which travellers missed; then the count. seen[who] holds the last simulation
+  // in which that traveller was counted, so nothing is cleared between simulations.
+  const who = Int32Array.from(chosen, (x) => travelerIndex.get(travelerKey(x.trip)) ?? 0);
+  const missed = chosen.map((x) => x.sim?.missed ?? new Uint8Array(simulations));
+  const seen = new Int32Array(travelers).fill(-1);
   const counts = new Uint32Array(simulations);
-  const missedBy = new Uint8Array(travelers);
   for (let i = 0; i < simulations; i++) {
-    missedBy.fill(0);
     let count = 0;
-    for (const { trip, sim } of chosen) {
-      if (!sim || !sim.missed[i]) continue;
-      const who = travelerIndex.get(travelerKey(trip)) ?? 0;
-      if (!missedBy[who]) {
-        missedBy[who] = 1;
+    for (let k = 0; k < missed.length; k++) {
+      if (!missed[k]![i]) continue;
+      const w = who[k]!;
+      if (seen[w] !== i) {
+        seen[w] = i;
         count++;
       }
     }

@@ -11,7 +11,7 @@ import { RouteTables } from './delay-table';
 import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct } from './mct';
 import { rankOptions } from './option-ranking';
 import { summariseGroup } from './group-summary';
-import { flightKey, selectQuantile, simulateTrips, type SimConnection, type SimFlight, type SimTrip } from './trip-simulation';
+import { flightKey, selectQuantiles, simulateTrips, type SimConnection, type SimFlight, type SimTrip } from './trip-simulation';
 import {
   RISK_CAUTION,
   type RiskFlag,
@@ -24,11 +24,11 @@ import {
 } from './types';
 
 /** Joint posterior draws used at most; fewer when a route has fewer. */
-export const MAX_JOINT_DRAWS = 100;
+export const MAX_JOINT_DRAWS = 64;
 export const DEFAULT_TARGET = 0.9;
 export const DEFAULT_INTERVAL_LEVEL = 0.9;
 export const DEFAULT_REBOOK_GAP_MINUTES = 180;
-export const DEFAULT_SIMULATIONS = 4000;
+export const DEFAULT_SIMULATIONS = 2000;
 export const DEFAULT_SEED = 1;
 
 interface RouteSlot {
@@ -225,6 +225,7 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     const first = trip.legs[0] as Leg;
     const last = trip.legs[trip.legs.length - 1] as Leg;
     const hasDeadline = sim?.pByDeadline !== null && sim?.pByDeadline !== undefined;
+    const [p50, p90] = sim ? selectQuantiles(sim.arrivalDelay, [0.5, 0.9]) : [NaN, NaN];
     return {
       ...trip,
       connections: scoredConnections[k] ?? [],
@@ -232,7 +233,7 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       pAllConnections: mean(allByDraw),
       pAllConnectionsInterval: centralInterval(allByDraw, settings.intervalLevel),
       expectedArrivalDelayMinutes: sim?.meanArrivalDelay ?? NaN,
-      arrivalDelayQuantilesMinutes: sim ? { p50: selectQuantile(sim.arrivalDelay, 0.5), p90: selectQuantile(sim.arrivalDelay, 0.9) } : { p50: NaN, p90: NaN },
+      arrivalDelayQuantilesMinutes: { p50: p50 ?? NaN, p90: p90 ?? NaN },
       pArriveByDeadline: sim?.pByDeadline ?? null,
       pOnTime: hasDeadline ? (sim?.pByDeadline ?? NaN) : (sim?.pWithin15 ?? NaN),
       onTimeBasis: hasDeadline ? ('deadline' as const) : ('within-15-minutes' as const),

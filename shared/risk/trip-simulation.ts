@@ -54,6 +54,9 @@ export interface TripSimulation {
   readonly pByDeadline: number | null;
 }
 
+/** Simulations per block (see simulateTrips). */
+const SIMULATION_BLOCK = 256;
+
 /** On time in the US BTS sense: arriving less than 15 minutes after schedule. */
 export const ON_TIME_TOLERANCE_MINUTES = 15;
 
@@ -78,91 +81,125 @@ export function flightStream(seed: number, key: string, kind: 'arrival' | 'depar
  */
 export function simulateTrips(flights: readonly SimFlight[], trips: readonly SimTrip[], simulations: number, draws: number, seed: number): TripSimulation[] {
   if (!Number.isInteger(simulations) || simulations < 1) throw new RangeError(`simulations must be a whole number >= 1, got ${simulations}`);
+  const n = simulations;
   const arrivalStreams = flights.map((f) => (f.arrival ? flightStream(seed, f.key, 'arrival') : null));
   const departureStreams = flights.map((f) => (f.departure ? flightStream(seed, f.key, 'departure') : null));
-  const a = new Float64Array(flights.length);
-  const d = new Float64Array(flights.length);
-  const delays = trips.map(() => new Float64Array(simulations));
-  const missed = trips.map(() => new Uint8Array(simulations));
-  for (let i = 0; i < simulations; i++) {
-    const t = i % draws;
+  // The trips flattened into typed arrays: the inner loop runs trips x connections x simulations times.
+  const connStart = new Int32Array(trips.length + 1);
+  trips.forEach((t, k) => (connStart[k + 1] = connStart[k]! + t.connections.length));
+  const cIn = new Int32Array(connStart[trips.length]!);
+  const cOut = new Int32Array(cIn.length);
+  const cSlack = new Float64Array(cIn.length);
+  const last = new Int32Array(trips.length);
+  const gap = new Float64Array(trips.length);
+  trips.forEach((t, k) => {
+    t.connections.forEach((c, j) => {
+      cIn[connStart[k]! + j] = c.inbound;
+      cOut[connStart[k]! + j] = c.outbound;
+      cSlack[connStart[k]! + j] = c.slackMinutes;
+    });
+    last[k] = t.lastFlight;
+    gap[k] = t.rebookGapMinutes;
+  });
+  // Simulations run in blocks: each flight's delays for a block are drawn in one sweep, then
+  // each trip reads its flights' rows, so every array is walked in order.
+  const block = Math.min(n, SIMULATION_BLOCK);
+  const a = new Float64Array(flights.length * block);
+  const d = new Float64Array(flights.length * block);
+  const delays = new Float64Array(trips.length * n);
+  const missed = new Uint8Array(trips.length * n);
+  for (let i0 = 0; i0 < n; i0 += block) {
+    const size = Math.min(block, n - i0);
     for (let f = 0; f < flights.length; f++) {
-      const flight = flights[f];
-      const ra = arrivalStreams[f];
-      const rd = departureStreams[f];
-      if (flight?.arrival && ra) a[f] = flight.arrival.table(t).inverse(ra.uniform());
-      if (flight?.departure && rd) d[f] = flight.departure.table(t).inverse(rd.uniform());
+      const flight = flights[f]!;
+      const row = f * block;
+      if (flight.arrival) {
+        const rng = arrivalStreams[f]!;
+        for (let j = 0; j < size; j++) a[row + j] = flight.arrival.table((i0 + j) % draws).inverse(rng.uniform());
+      }
+      if (flight.departure) {
+        const rng = departureStreams[f]!;
+        for (let j = 0; j < size; j++) d[row + j] = flight.departure.table((i0 + j) % draws).inverse(rng.uniform());
+      }
     }
     for (let k = 0; k < trips.length; k++) {
-      const trip = trips[k];
-      if (!trip) continue;
-      let shift = 0;
-      let miss = 0;
-      for (const c of trip.connections) {
-        const shortfall = (a[c.inbound] ?? 0) - (d[c.outbound] ?? 0) - c.slackMinutes;
-        if (shortfall > 0) {
-          miss = 1;
-          shift += Math.ceil(shortfall / trip.rebookGapMinutes) * trip.rebookGapMinutes;
+      const g = gap[k]!;
+      const out = k * n + i0;
+      const lastRow = last[k]! * block;
+      for (let j = 0; j < size; j++) delays[out + j] = 0;
+      for (let c = connStart[k]!, end = connStart[k + 1]!; c < end; c++) {
+        const inRow = cIn[c]! * block;
+        const outRow = cOut[c]! * block;
+        const slack = cSlack[c]!;
+        for (let j = 0; j < size; j++) {
+          const shortfall = a[inRow + j]! - d[outRow + j]! - slack;
+          if (shortfall > 0) {
+            missed[out + j] = 1;
+            delays[out + j] = delays[out + j]! + Math.ceil(shortfall / g) * g;
+          }
         }
       }
-      (delays[k] as Float64Array)[i] = (a[trip.lastFlight] ?? 0) + shift;
-      (missed[k] as Uint8Array)[i] = miss;
+      for (let j = 0; j < size; j++) delays[out + j] = delays[out + j]! + a[lastRow + j]!;
     }
   }
   return trips.map((trip, k) => {
-    const delay = delays[k] as Float64Array;
+    const delay = delays.subarray(k * n, (k + 1) * n);
     let sum = 0;
     let within = 0;
     let byDeadline = 0;
-    for (let i = 0; i < simulations; i++) {
-      const x = delay[i] ?? 0;
+    const slack = trip.deadlineSlackMinutes;
+    for (let i = 0; i < n; i++) {
+      const x = delay[i]!;
       sum += x;
       if (x < ON_TIME_TOLERANCE_MINUTES) within++;
-      if (trip.deadlineSlackMinutes !== null && x <= trip.deadlineSlackMinutes) byDeadline++;
+      if (slack !== null && x <= slack) byDeadline++;
     }
     return {
-      simulations,
+      simulations: n,
       arrivalDelay: delay,
-      missed: missed[k] as Uint8Array,
-      meanArrivalDelay: sum / simulations,
-      pWithin15: within / simulations,
-      pByDeadline: trip.deadlineSlackMinutes === null ? null : byDeadline / simulations,
+      missed: missed.subarray(k * n, (k + 1) * n),
+      meanArrivalDelay: sum / n,
+      pWithin15: within / n,
+      pByDeadline: slack === null ? null : byDeadline / n,
     };
   });
 }
 
 /**
- * The p-quantile (Hyndman & Fan definition 7) of values, without sorting all of them: two
- * selections in a copy. NaN-free input assumed; empty input gives NaN.
+ * Quantiles (Hyndman & Fan definition 7) of values at each p, without sorting them all:
+ * selections in one copy. NaN-free input assumed; empty input gives NaN.
+ * @example selectQuantiles(Float64Array.of(3, 1, 2), [0.5]) // returns [2]
  */
-export function selectQuantile(values: Float64Array, p: number): number {
+export function selectQuantiles(values: Float64Array, ps: readonly number[]): number[] {
   const n = values.length;
-  if (n === 0) return NaN;
+  if (n === 0) return ps.map(() => NaN);
   const work = Float64Array.from(values);
-  const h = (n - 1) * p;
-  const i = Math.floor(h);
-  const lo = select(work, i);
-  if (i + 1 >= n || h === i) return lo;
-  // After selecting i, everything right of i is >= work[i]; the next order statistic is their minimum.
-  let next = Infinity;
-  for (let j = i + 1; j < n; j++) next = Math.min(next, work[j] ?? Infinity);
-  return lo + (h - i) * (next - lo);
+  return ps.map((p) => {
+    const h = (n - 1) * p;
+    const i = Math.floor(h);
+    const lo = select(work, i);
+    if (i + 1 >= n || h === i) return lo;
+    // After selecting i, everything right of i is >= work[i]; the next order statistic is their minimum.
+    let next = Infinity;
+    for (let j = i + 1; j < n; j++) if (work[j]! < next) next = work[j]!;
+    return lo + (h - i) * (next - lo);
+  });
 }
 
-// Hoare's quickselect with a middle pivot: leaves the k-th smallest at index k.
+// Hoare's quickselect with a middle pivot: leaves the k-th smallest at index k, smaller ones left of it.
 function select(a: Float64Array, k: number): number {
   let left = 0;
   let right = a.length - 1;
   while (left < right) {
-    const pivot = a[(left + right) >>> 1] ?? 0;
+    const pivot = a[(left + right) >>> 1]!;
     let i = left;
     let j = right;
     while (i <= j) {
-      while ((a[i] ?? 0) < pivot) i++;
-      while ((a[j] ?? 0) > pivot) j--;
+      while (a[i]! < pivot) i++;
+      while (a[j]! > pivot) j--;
       if (i <= j) {
-        const tmp = a[i] ?? 0;
-        a[i] = a[j] ?? 0;
+        const tmp = a[i]!;
+        a[i] = a[j]!;
         a[j] = tmp;
         i++;
         j--;
@@ -172,5 +209,5 @@ function select(a: Float64Array, k: number): number {
     else if (k >= i) left = i;
     else break;
   }
-  return a[k] ?? NaN;
+  return a[k]!;
 }

@@ -225,7 +225,7 @@ export interface ScoreOptions {
   readonly rebookGapMinutes?: number;
   /** Per-trip rebook gap, by trip id; overrides rebookGapMinutes. */
   readonly rebookGapByTrip?: Readonly<Record<string, number>>;
-  /** Monte Carlo simulations for trip delays and the group; default 4000. */
+  /** Monte Carlo simulations for trip delays and the group; default 2000. */
   readonly simulations?: number;
   readonly seed?: number;
   /** MCT overrides; later rules win over earlier ones, an airport's rule over '*'. */
