@@ -1,5 +1,6 @@
 // The benchmark suites `npm run bench` runs, one file each under suites/.
 import type { BenchSuite } from './suite';
 import { inferenceSuite } from './suites/inference';
+import { intakeSuite } from './suites/intake';
 
-export const suites: readonly BenchSuite[] = [inferenceSuite];
+export const suites: readonly BenchSuite[] = [inferenceSuite, intakeSuite];

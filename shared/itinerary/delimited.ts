@@ -126,6 +126,7 @@ export function readDelimited(lines: readonly InputLine[], headerIndex: number, 
   const headerLine = lines[headerIndex];
   const contextLines: number[] = headerLine ? [headerLine.number] : [];
   const { columns, delimiter } = header;
+  const firstHeaderKey = headerKey(splitCells(headerLine?.text ?? '', delimiter).cells[0] ?? '');
 
   if (headerLine) {
     const p = new LineProblems(headerLine.number, headerLine.text);
@@ -173,7 +174,7 @@ export function readDelimited(lines: readonly InputLine[], headerIndex: number, 
       contextLines.push(first.number);
       continue;
     }
-    if (matchHeader(text)) {
+    if (headerKey(cells[0] ?? '') === firstHeaderKey && matchHeader(text)) {
       // A repeated header, as when two pastes are joined.
       contextLines.push(first.number);
       continue;

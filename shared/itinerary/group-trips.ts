@@ -21,8 +21,10 @@ function fnv1a(text: string): string {
   return h.toString(16).padStart(8, '0');
 }
 
-function localDate(local: string): string {
-  return local.slice(0, 10);
+/** True when two `YYYY-MM-DDTHH:MM` strings fall on different calendar days. */
+function differentDays(a: string, b: string): boolean {
+  for (let i = 0; i < 10; i++) if (a.charCodeAt(i) !== b.charCodeAt(i)) return true;
+  return false;
 }
 
 export function connectionBetween(inbound: Leg, outbound: Leg, inboundLeg: number): Connection {
@@ -32,10 +34,10 @@ export function connectionBetween(inbound: Leg, outbound: Leg, inboundLeg: numbe
   if (layoverMinutes > STOPOVER_MINUTES) flags.push('stopover');
   if (inbound.to !== outbound.from) flags.push('airport-change');
   if (inbound.booking !== '' && outbound.booking !== '' && inbound.booking !== outbound.booking) flags.push('separate-tickets');
-  if (layoverMinutes >= 0 && localDate(inbound.arriveLocal) !== localDate(outbound.departLocal)) flags.push('overnight');
+  if (layoverMinutes >= 0 && differentDays(inbound.arriveLocal, outbound.departLocal)) flags.push('overnight');
   if (layoverMinutes > 0) {
-    const zones = new Set([inbound.toZone, outbound.fromZone]);
-    if ([...zones].some((z) => offsetChangesBetween(z, inbound.arriveUtcMs, outbound.departUtcMs).length > 0)) flags.push('dst-change-during-trip');
+    const changesAt = (zone: string) => offsetChangesBetween(zone, inbound.arriveUtcMs, outbound.departUtcMs).length > 0;
+    if (changesAt(inbound.toZone) || (outbound.fromZone !== inbound.toZone && changesAt(outbound.fromZone))) flags.push('dst-change-during-trip');
   }
   return { airport: inbound.to, departAirport: outbound.from, inboundLeg, layoverMinutes, flags };
 }
@@ -111,9 +113,15 @@ function tripDstWarning(legs: readonly Leg[], text: string | undefined, problems
   const first = legs[0];
   const last = legs[legs.length - 1];
   if (!first || !last) return;
-  const end = Math.max(...legs.map((l) => l.arriveUtcMs));
+  let end = first.arriveUtcMs;
+  const zones = new Set<string>();
+  for (const l of legs) {
+    if (l.arriveUtcMs > end) end = l.arriveUtcMs;
+    zones.add(l.fromZone);
+    zones.add(l.toZone);
+  }
   const seen: string[] = [];
-  for (const zone of new Set(legs.flatMap((l) => [l.fromZone, l.toZone]))) {
+  for (const zone of zones) {
     for (const t of offsetChangesBetween(zone, first.departUtcMs, end)) {
       seen.push(`${zone} changes from ${formatOffset(offsetMinutesAt(zone, t - 60_000))} to ${formatOffset(offsetMinutesAt(zone, t))} at ${formatUtc(t)}`);
     }

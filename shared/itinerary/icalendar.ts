@@ -37,7 +37,7 @@ function logicalLines(lines: readonly InputLine[]): { first: InputLine; numbers:
 }
 
 /** Splits the file into its top-level components inside VCALENDAR. */
-function topLevelBlocks(lines: readonly InputLine[], structure: number[], stray: InputLine[]): Block[] {
+function topLevelBlocks(lines: readonly InputLine[], structure: number[], stray: { first: InputLine; numbers: number[] }[]): Block[] {
   const blocks: Block[] = [];
   let current: { name: string; startLine: InputLine; lines: number[]; text: string[]; depth: number } | null = null;
   for (const l of logicalLines(lines)) {
@@ -47,7 +47,7 @@ function topLevelBlocks(lines: readonly InputLine[], structure: number[], stray:
       if (begin?.[1] && begin[1].toUpperCase() !== 'VCALENDAR') {
         current = { name: begin[1].toUpperCase(), startLine: l.first, lines: [...l.numbers], text: [l.text], depth: 1 };
       } else if (/^[A-Za-z0-9-]+[;:]/.test(l.text)) structure.push(...l.numbers);
-      else stray.push(l.first);
+      else stray.push(l);
       continue;
     }
     current.lines.push(...l.numbers);
@@ -269,12 +269,13 @@ export function readICalendar(lines: readonly InputLine[]): IcsRead {
   const problems: LineProblems[] = [];
   const legs: ReadLeg[] = [];
   const contextLines: number[] = [];
-  const stray: InputLine[] = [];
+  const stray: { first: InputLine; numbers: number[] }[] = [];
   const blocks = topLevelBlocks(lines, contextLines, stray);
-  for (const l of stray) {
-    const p = new LineProblems(l.number, l.text);
-    p.warn('ics-unreadable-line', `not an iCalendar content line; ignored: '${excerpt(l.text)}'`);
+  for (const { first, numbers } of stray) {
+    const p = new LineProblems(first.number, first.text);
+    p.warn('ics-unreadable-line', `not an iCalendar content line; ignored: '${excerpt(first.text)}'`);
     problems.push(p);
+    contextLines.push(...numbers.slice(1));
   }
   const zones = fileTimezones(blocks, problems);
   const nameLine = lines.find((l) => /^X-WR-CALNAME[:;]/i.test(l.text));

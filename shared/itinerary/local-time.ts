@@ -2,6 +2,7 @@
 // 24-hour and 12-hour (AM/PM) times, and the "+1" day marks of airline timetables.
 //
 // Pure text → numbers; no zone is involved here (see shared/time/zones.ts for that).
+import { daysFromCivil, fieldsOfMs } from '../time/zones';
 
 export interface CalendarDate {
   readonly year: number;
@@ -31,8 +32,11 @@ const MONTHS: Record<string, number> = {
 const MONTH_NAMES = Object.keys(MONTHS).sort((a, b) => b.length - a.length).join('|');
 const WEEKDAYS = '(?:mon|tue|tues|wed|thu|thur|thurs|fri|sat|sun)(?:day|sday|nesday|urday|rsday)?\\.?,?';
 
+const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
 function daysInMonth(year: number, month: number): number {
-  return new Date(Date.UTC(year, month, 0)).getUTCDate();
+  const leap = (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0;
+  return month === 2 && leap ? 29 : (DAYS_IN_MONTH[month - 1] ?? 0);
 }
 
 /** A checked calendar date, or null when the day does not exist (31 April, 29 February 2027). */
@@ -44,8 +48,8 @@ export function calendarDate(year: number, month: number, day: number): Calendar
 
 /** The date `days` after `date` in the proleptic Gregorian calendar. */
 export function addDays(date: CalendarDate, days: number): CalendarDate {
-  const d = new Date(Date.UTC(date.year, date.month - 1, date.day + days));
-  return { year: d.getUTCFullYear(), month: d.getUTCMonth() + 1, day: d.getUTCDate() };
+  const f = fieldsOfMs((daysFromCivil(date.year, date.month, date.day) + days) * 86_400_000);
+  return { year: f.year, month: f.month, day: f.day };
 }
 
 function fullYear(text: string): number {
@@ -100,19 +104,22 @@ export interface Found<T> {
   readonly length: number;
 }
 
+const GLOBAL_DATE_PATTERNS = DATE_PATTERNS.map(({ re, read }) => ({ re: new RegExp(re.source, re.flags + 'g'), read }));
+
 /** Every date written in `text`, in order of position; overlapping matches keep the earliest pattern's. */
 export function findDates(text: string): Found<CalendarDate>[] {
+  if (!/\d/.test(text)) return [];
   const found: Found<CalendarDate>[] = [];
   const taken: [number, number][] = [];
-  for (const { re, read } of DATE_PATTERNS) {
-    const global = new RegExp(re.source, re.flags.includes('g') ? re.flags : re.flags + 'g');
-    for (let m = global.exec(text); m; m = global.exec(text)) {
+  for (const { re, read } of GLOBAL_DATE_PATTERNS) {
+    re.lastIndex = 0;
+    for (let m = re.exec(text); m; m = re.exec(text)) {
       const start = m.index;
       const end = start + m[0].length;
+      if (m[0].length === 0) re.lastIndex++;
       if (taken.some(([s, e]) => start < e && end > s)) continue;
       taken.push([start, end]);
       found.push({ value: read(m), index: start, length: m[0].length });
-      if (m[0].length === 0) global.lastIndex++;
     }
   }
   return found.sort((a, b) => a.index - b.index);
@@ -124,6 +131,7 @@ const TIME_RE = /(?<![\d:])(\d{1,2})(?:[:h](\d{2})(?::(\d{2}))?)?\s*(a\.?m\.?|p\
 /** Every clock time in `text`, in order. A bare number counts only with AM/PM after it ("7pm"). */
 export function findTimes(text: string): Found<ClockTime>[] {
   const found: Found<ClockTime>[] = [];
+  if (!/\d/.test(text)) return found;
   TIME_RE.lastIndex = 0;
   for (let m = TIME_RE.exec(text); m; m = TIME_RE.exec(text)) {
     const [whole, h, min, sec, ampm] = m;
@@ -148,6 +156,30 @@ function clockTime(hour: number, minute: number, second: number, ampm: string, t
   return { ok: true, value: { hour, minute } };
 }
 
+const ISO_DATE_TIME_RE = /^(\d{4})-(\d{2})-(\d{2})[ T](\d{2}):(\d{2})$/;
+const TIME_WITH_MARK_RE = /^(\d{1,2}):(\d{2})(?: ([+-])(\d))?$/;
+
+/** The two forms machine-written tables use, read without the general search; null otherwise. */
+function quickParse(text: string): Parsed<LocalDateTimeText> | null {
+  let m = ISO_DATE_TIME_RE.exec(text);
+  if (m) {
+    const date = calendarDate(Number(m[1]), Number(m[2]), Number(m[3]));
+    const hour = Number(m[4]);
+    const minute = Number(m[5]);
+    if (!date || hour > 23 || minute > 59) return null;
+    return { ok: true, value: { date, time: { hour, minute }, dayOffset: null } };
+  }
+  m = TIME_WITH_MARK_RE.exec(text);
+  if (m) {
+    const hour = Number(m[1]);
+    const minute = Number(m[2]);
+    if (hour > 23 || minute > 59) return null;
+    const dayOffset = m[3] ? (m[3] === '-' ? -1 : 1) * Number(m[4]) : null;
+    return { ok: true, value: { date: null, time: { hour, minute }, dayOffset } };
+  }
+  return null;
+}
+
 const DAY_OFFSET_RE = /(?:^|[\s(])([+\-−]\s?\d)(?:\s*days?)?\)?(?=\s|$)/i;
 
 /**
@@ -157,6 +189,8 @@ const DAY_OFFSET_RE = /(?:^|[\s(])([+\-−]\s?\d)(?:\s*days?)?\)?(?=\s|$)/i;
 export function parseLocalDateTime(cell: string): Parsed<LocalDateTimeText> {
   const text = cell.trim();
   if (text === '') return { ok: false, message: 'empty' };
+  const quick = quickParse(text);
+  if (quick) return quick;
   if (text.length > 80) return { ok: false, message: 'too long for a date and time' };
   // ISO 8601 joins date and time with 'T'; split it so both patterns see word boundaries.
   const spaced = text.replace(/^(\d{4}-\d{1,2}-\d{1,2})T/i, '$1 ').replace(/(?<=\d)Z$/i, ' Z');

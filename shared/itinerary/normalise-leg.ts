@@ -4,7 +4,7 @@
 // Rules: departure is local time at `from`, arrival local time at `to`; a missing arrival date
 // is the one that makes the flight last more than 0 and under 20 hours, if exactly one does.
 import { findAirport, suggestAirports, type Airport } from '../time/airports';
-import { formatOffset, formatUtc, formatWallTime, resolveLocalTime, type LocalResolution, type WallTime } from '../time/zones';
+import { formatOffset, formatUtc, formatWallTime, offsetMinutesAt, resolveLocalTime, wallTimeMs, type LocalResolution, type WallTime } from '../time/zones';
 import { addDays, parseLocalDateTime, type CalendarDate, type ClockTime } from './local-time';
 import type { Leg, Problem, Severity } from './types';
 
@@ -88,7 +88,7 @@ function clip(text: string, max = 40): string {
 }
 
 function wall(date: CalendarDate, time: ClockTime): WallTime {
-  return { ...date, ...time };
+  return { year: date.year, month: date.month, day: date.day, hour: time.hour, minute: time.minute };
 }
 
 function hhmm(w: WallTime): string {
@@ -200,8 +200,12 @@ function resolveArrival(
   // The day before is a real case: eastbound over the date line (Tokyo → Honolulu).
   const fits: { wall: WallTime; utcMs: number; resolution: LocalResolution }[] = [];
   let gapSeen: { w: WallTime; r: LocalResolution } | null = null;
+  // Offsets move by at most a few hours, so a day whose rough instant is far outside the window is skipped.
+  const roughOffsetMs = offsetMinutesAt(to.zone, departUtcMs) * 60_000;
   for (const offset of [-1, 0, 1, 2]) {
     const w = wall(addDays(departDate, offset), time);
+    const rough = wallTimeMs(w) - roughOffsetMs;
+    if (!(rough > departUtcMs - 6 * 3_600_000 && rough < departUtcMs + (MAX_FLIGHT_MINUTES + 6 * 60) * 60_000)) continue;
     const r = resolveLocalTime(to.zone, w);
     const instants = r.kind === 'exact' ? [r.utcMs] : r.kind === 'ambiguous' ? [r.utcMs, r.laterUtcMs] : [];
     if (r.kind === 'gap') gapSeen = { w, r };

@@ -71,46 +71,66 @@ export function unknownAirportMessage(code: string, suggestions: readonly Airpor
   return `${head}; did you mean ${suggestions.map((a) => `${a.iata} (${a.name}, ${a.city})`).join(', ')}?`;
 }
 
-/** Adjacent swap, one letter changed, or one letter missing / extra. */
-function editCost(a: string, b: string): number {
-  if (a === b) return 0;
-  if (a.length === b.length) {
-    const diff: number[] = [];
-    for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) diff.push(i);
-    if (diff.length === 1) return 2;
-    const [i, j] = diff;
-    if (diff.length === 2 && i !== undefined && j === i + 1 && a[i] === b[j] && a[j] === b[i]) return 1;
-    return Infinity;
-  }
-  const [short, long] = a.length < b.length ? [a, b] : [b, a];
-  if (long.length - short.length !== 1) return Infinity;
-  for (let i = 0; i < long.length; i++) if (long.slice(0, i) + long.slice(i + 1) === short) return 3;
-  return Infinity;
+const LETTERS = 'ABCDEFGHIJKLMNOPQRSTUVWXYZ';
+
+let lowerCased: { airport: Airport; city: string; name: string }[] | null = null;
+
+function searchIndex(): { airport: Airport; city: string; name: string }[] {
+  lowerCased ??= allAirports().map((airport) => ({ airport, city: airport.city.toLowerCase(), name: airport.name.toLowerCase() }));
+  return lowerCased;
+}
+
+/**
+ * Codes one typo away from `query`, with a cost: swapped neighbours 1, one letter changed 2,
+ * one letter missing or extra 3. Generated and looked up, so no scan of the table is needed.
+ */
+function typoNeighbours(query: string): Map<string, number> {
+  const out = new Map<string, number>();
+  const add = (code: string, cost: number) => {
+    if (code.length === 3 && code !== query && (out.get(code) ?? Infinity) > cost) out.set(code, cost);
+  };
+  for (let i = 0; i + 1 < query.length; i++) add(query.slice(0, i) + query[i + 1] + query[i] + query.slice(i + 2), 1);
+  for (let i = 0; i < query.length; i++) for (const c of LETTERS) add(query.slice(0, i) + c + query.slice(i + 1), 2);
+  if (query.length === 4) for (let i = 0; i < 4; i++) add(query.slice(0, i) + query.slice(i + 1), 3);
+  if (query.length === 2) for (let i = 0; i <= 2; i++) for (const c of LETTERS) add(query.slice(0, i) + c + query.slice(i), 3);
+  return out;
 }
 
 /**
  * Close matches for a code that is not in the table, best first (at most `limit`).
  *
- * A three-letter code is matched by typo distance: swapped neighbours first (JKF → JFK),
- * then one wrong letter, then one letter missing or extra. Longer input is also matched
- * against city and airport names, so 'Frankfurt' suggests FRA.
+ * A two- to four-letter code is matched by typo distance: swapped neighbours first (JKF → JFK),
+ * then one wrong letter, then one letter missing or extra. Longer input is matched against
+ * city and airport names instead, so 'Frankfurt' suggests FRA.
  */
 export function suggestAirports(code: string, limit = 5): Airport[] {
   if (typeof code !== 'string') return [];
   const query = code.trim().toUpperCase();
   if (query.length === 0 || query.length > 80) return [];
+  const table = airportsByCode();
   const scored: { airport: Airport; cost: number }[] = [];
-  const words = query.length > 3 ? query.toLowerCase() : '';
-  for (const airport of airportsByCode().values()) {
-    if (airport.iata === query) continue;
-    let cost = query.length >= 2 && query.length <= 4 ? editCost(query, airport.iata) : Infinity;
-    if (words) {
-      const city = airport.city.toLowerCase();
-      if (city === words) cost = Math.min(cost, 0.5);
-      else if (city.startsWith(words) || airport.name.toLowerCase().includes(words)) cost = Math.min(cost, 4);
+  if (/^[A-Z]{2,4}$/.test(query)) {
+    for (const [candidate, cost] of typoNeighbours(query)) {
+      const airport = table.get(candidate);
+      if (airport) scored.push({ airport, cost });
     }
-    if (Number.isFinite(cost)) scored.push({ airport, cost });
+  }
+  // Only text that could be a place name is searched by name: it scans the whole table.
+  if (/^[A-Z][A-Z .'-]{3,39}$/.test(query)) {
+    const words = query.toLowerCase();
+    for (const { airport, city, name } of searchIndex()) {
+      if (city === words) scored.push({ airport, cost: 0.5 });
+      else if (city.startsWith(words) || name.includes(words)) scored.push({ airport, cost: 4 });
+    }
   }
   scored.sort((x, y) => x.cost - y.cost || x.airport.iata.localeCompare(y.airport.iata));
-  return scored.slice(0, Math.max(0, limit)).map((s) => s.airport);
+  const seen = new Set<string>();
+  const out: Airport[] = [];
+  for (const s of scored) {
+    if (seen.has(s.airport.iata) || s.airport.iata === query) continue;
+    seen.add(s.airport.iata);
+    out.push(s.airport);
+    if (out.length >= Math.max(0, limit)) break;
+  }
+  return out;
 }

@@ -72,32 +72,69 @@ function exactOffsetMinutes(zone: string, utcMs: number): number {
   return parseOffset(formatInTimeZone(utcMs, zone, 'xxx'));
 }
 
-// Offsets at 00:00 UTC of each day, per zone. Since 1970 no zone has changed its offset twice
-// within one day (IANA tz database), so when a day's start and the next day's start agree the
-// whole day has that offset, and most lookups are one Map hit instead of an Intl call.
-const dayStartOffsets = new Map<string, Map<number, number>>();
-let cachedDays = 0;
+/** The offset at the start of a year and every change during it, each with the offset it starts. */
+interface YearOffsets {
+  readonly startOffset: number;
+  readonly changes: readonly { readonly atMs: number; readonly offset: number }[];
+}
 
-function offsetAtDayStart(zone: string, dayIndex: number): number {
-  let days = dayStartOffsets.get(zone);
-  if (!days) {
-    days = new Map();
-    dayStartOffsets.set(zone, days);
-  }
-  let offset = days.get(dayIndex);
-  if (offset === undefined) {
-    if (cachedDays > 500_000) {
+// Per zone and year, found once by sampling every SAMPLE_MS and bisecting to the minute where
+// the offset differs. Since 1970 no zone has changed its offset twice within four days (IANA tz
+// database; the shortest are the Ramadan suspensions of DST, weeks long), so no change is missed.
+const SAMPLE_MS = 4 * DAY_MS;
+const yearCache = new Map<string, Map<number, YearOffsets>>();
+let cachedYears = 0;
+
+function yearOffsets(zone: string, year: number): YearOffsets {
+  let years = yearCache.get(zone);
+  if (!years) {
+    if (cachedYears > 20_000) {
       // Bound the memory garbage input could make us spend.
-      dayStartOffsets.clear();
-      cachedDays = 0;
-      days = new Map();
-      dayStartOffsets.set(zone, days);
+      yearCache.clear();
+      cachedYears = 0;
     }
-    offset = exactOffsetMinutes(zone, dayIndex * DAY_MS);
-    days.set(dayIndex, offset);
-    cachedDays++;
+    years = new Map();
+    yearCache.set(zone, years);
   }
-  return offset;
+  const hit = years.get(year);
+  if (hit) return hit;
+  const start = Date.UTC(year, 0, 1);
+  const end = Date.UTC(year + 1, 0, 1);
+  const startOffset = exactOffsetMinutes(zone, start);
+  const changes: { atMs: number; offset: number }[] = [];
+  let prevT = start;
+  let prev = startOffset;
+  for (let t = Math.min(start + SAMPLE_MS, end); ; t = Math.min(t + SAMPLE_MS, end)) {
+    const cur = exactOffsetMinutes(zone, t);
+    if (cur !== prev) {
+      let lo = prevT;
+      let hi = t;
+      while (hi - lo > MINUTE_MS) {
+        const mid = lo + Math.floor((hi - lo) / 2 / MINUTE_MS) * MINUTE_MS;
+        if (exactOffsetMinutes(zone, mid) === prev) lo = mid;
+        else hi = mid;
+      }
+      // A change at the very start of next year belongs to next year's table.
+      if (hi < end) changes.push({ atMs: hi, offset: cur });
+      prev = cur;
+    }
+    prevT = t;
+    if (t >= end) break;
+  }
+  const entry = { startOffset, changes };
+  years.set(year, entry);
+  cachedYears++;
+  return entry;
+}
+
+// Start of each year 1900-2200 in UTC ms, so finding an instant's year allocates nothing.
+const YEAR_STARTS = Array.from({ length: 302 }, (_, i) => Date.UTC(1900 + i, 0, 1));
+
+function utcYear(ms: number): number {
+  let i = Math.min(301, Math.max(0, Math.floor((ms - MIN_MS) / 31_556_952_000)));
+  while (i > 0 && ms < (YEAR_STARTS[i] ?? -Infinity)) i--;
+  while (i < 300 && ms >= (YEAR_STARTS[i + 1] ?? Infinity)) i++;
+  return 1900 + i;
 }
 
 /**
@@ -108,19 +145,55 @@ function offsetAtDayStart(zone: string, dayIndex: number): number {
  */
 export function offsetMinutesAt(zone: string, utcMs: number): number {
   if (!Number.isFinite(utcMs) || utcMs < MIN_MS || utcMs >= MAX_MS || !isValidZone(zone)) return NaN;
-  const day = Math.floor(utcMs / DAY_MS);
-  const start = offsetAtDayStart(zone, day);
-  return start === offsetAtDayStart(zone, day + 1) ? start : exactOffsetMinutes(zone, utcMs);
+  const { startOffset, changes } = yearOffsets(zone, utcYear(utcMs));
+  let offset = startOffset;
+  for (const c of changes) {
+    if (utcMs < c.atMs) break;
+    offset = c.offset;
+  }
+  return offset;
 }
 
-/** Milliseconds of a wall time read as if it were UTC: the zone-free "local timeline". */
+const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+function isLeapYear(y: number): boolean {
+  return (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0;
+}
+
+/** Days from 1970-01-01 to a proleptic Gregorian date (H. Hinnant's days_from_civil). */
+export function daysFromCivil(y: number, m: number, d: number): number {
+  const yy = m <= 2 ? y - 1 : y;
+  const era = Math.floor(yy / 400);
+  const yoe = yy - era * 400;
+  const doy = Math.floor((153 * (m + (m > 2 ? -3 : 9)) + 2) / 5) + d - 1;
+  const doe = yoe * 365 + Math.floor(yoe / 4) - Math.floor(yoe / 100) + doy;
+  return era * 146097 + doe - 719468;
+}
+
+/** Milliseconds of a wall time read as if it were UTC: the zone-free "local timeline". NaN if it is not a real date and time. */
 export function wallTimeMs(w: WallTime): number {
-  if (![w.year, w.month, w.day, w.hour, w.minute].every(Number.isInteger)) return NaN;
-  const ms = Date.UTC(w.year, w.month - 1, w.day, w.hour, w.minute);
-  // Date.UTC rolls 31 February over into March; a wall time must name a real calendar day.
-  const d = new Date(ms);
-  if (d.getUTCFullYear() !== w.year || d.getUTCMonth() !== w.month - 1 || d.getUTCDate() !== w.day || w.hour > 23 || w.minute > 59 || w.hour < 0 || w.minute < 0) return NaN;
-  return ms;
+  const { year, month, day, hour, minute } = w;
+  if (!Number.isInteger(year) || !Number.isInteger(month) || !Number.isInteger(day) || !Number.isInteger(hour) || !Number.isInteger(minute)) return NaN;
+  if (month < 1 || month > 12 || day < 1 || hour < 0 || hour > 23 || minute < 0 || minute > 59) return NaN;
+  const monthDays = month === 2 && isLeapYear(year) ? 29 : (DAYS_IN_MONTH[month - 1] ?? 0);
+  if (day > monthDays) return NaN;
+  return daysFromCivil(year, month, day) * DAY_MS + hour * 3_600_000 + minute * MINUTE_MS;
+}
+
+/** The calendar fields of a UTC millisecond count (H. Hinnant's civil_from_days). */
+export function fieldsOfMs(ms: number): WallTime & { second: number } {
+  const days = Math.floor(ms / DAY_MS);
+  const rest = ms - days * DAY_MS;
+  const z = days + 719468;
+  const era = Math.floor(z / 146097);
+  const doe = z - era * 146097;
+  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365);
+  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100));
+  const mp = Math.floor((5 * doy + 2) / 153);
+  const day = doy - Math.floor((153 * mp + 2) / 5) + 1;
+  const month = mp < 10 ? mp + 3 : mp - 9;
+  const year = yoe + era * 400 + (month <= 2 ? 1 : 0);
+  return { year, month, day, hour: Math.floor(rest / 3_600_000), minute: Math.floor((rest % 3_600_000) / MINUTE_MS), second: Math.floor((rest % MINUTE_MS) / 1000) };
 }
 
 /**
@@ -136,42 +209,39 @@ export function resolveLocalTime(zone: string, wall: WallTime): LocalResolution 
   if (!Number.isFinite(wallMs)) return { kind: 'invalid', reason: 'not a real calendar date and time' };
   if (wallMs < MIN_MS || wallMs >= MAX_MS) return { kind: 'invalid', reason: 'year outside 1900-2199' };
 
-  // The instant lies within ±14 h of wallMs, so inside [day − 1, day + 2) in UTC days.
-  const day = Math.floor(wallMs / DAY_MS);
-  const o = [offsetAtDayStart(zone, day - 1), offsetAtDayStart(zone, day), offsetAtDayStart(zone, day + 1), offsetAtDayStart(zone, day + 2)];
-  if (o.some(Number.isNaN)) return { kind: 'invalid', reason: `no offset for time zone '${zone}'` };
-  if (o[0] === o[1] && o[1] === o[2] && o[2] === o[3]) {
-    const offsetMinutes = o[0] ?? 0;
-    return { kind: 'exact', utcMs: wallMs - offsetMinutes * MINUTE_MS, offsetMinutes };
-  }
+  // The instant lies within [wallMs − 14 h, wallMs + 12 h]: look for offset changes near it.
+  const lo = Math.max(MIN_MS, wallMs - MAX_OFFSET_MS - 3_600_000);
+  const hi = Math.min(MAX_MS - 1, wallMs + MAX_OFFSET_MS + 3_600_000);
+  const before = offsetMinutesAt(zone, lo);
+  if (Number.isNaN(before)) return { kind: 'invalid', reason: `no offset for time zone '${zone}'` };
+  const near = offsetChangesBetween(zone, lo, hi);
+  if (near.length === 0) return { kind: 'exact', utcMs: wallMs - before * MINUTE_MS, offsetMinutes: before };
 
-  // A transition is near: try every offset seen around it, and keep those that reproduce the wall time.
-  const candidates = new Set<number>(o);
-  for (const c of [...candidates]) candidates.add(offsetMinutesAt(zone, wallMs - c * MINUTE_MS));
+  // A change is near: keep every offset in force around it that reproduces the wall time.
+  const candidates = new Set<number>([before, ...near.map((t) => offsetMinutesAt(zone, t))]);
   const hits = [...candidates]
-    .filter((c) => Number.isFinite(c) && offsetMinutesAt(zone, wallMs - c * MINUTE_MS) === c)
+    .filter((c) => offsetMinutesAt(zone, wallMs - c * MINUTE_MS) === c)
     .map((c) => ({ utcMs: wallMs - c * MINUTE_MS, offsetMinutes: c }))
-    .sort((a, b) => a.utcMs - b.utcMs);
+    .sort((x, y) => x.utcMs - y.utcMs);
   const [first, later] = hits;
   if (first && later) {
     return { kind: 'ambiguous', utcMs: first.utcMs, offsetMinutes: first.offsetMinutes, laterUtcMs: later.utcMs, laterOffsetMinutes: later.offsetMinutes };
   }
   if (first) return { kind: 'exact', ...first };
-  // In a gap: the offset before it is the one in force MAX_OFFSET_MS before the wall time.
-  const beforeOffsetMinutes = offsetMinutesAt(zone, wallMs - MAX_OFFSET_MS);
-  const afterOffsetMinutes = offsetMinutesAt(zone, wallMs + MAX_OFFSET_MS);
-  return { kind: 'gap', beforeOffsetMinutes, afterOffsetMinutes, shiftedUtcMs: wallMs - beforeOffsetMinutes * MINUTE_MS };
+  // In a gap: clocks jumped from the offset before the change to the one after it.
+  const afterOffsetMinutes = offsetMinutesAt(zone, near[near.length - 1] ?? hi);
+  return { kind: 'gap', beforeOffsetMinutes: before, afterOffsetMinutes, shiftedUtcMs: wallMs - before * MINUTE_MS };
 }
 
 /** The wall time in `zone` at the instant `utcMs`; null for an unknown zone or a non-finite instant. */
 export function wallTimeAt(zone: string, utcMs: number): WallTime | null {
   const offset = offsetMinutesAt(zone, utcMs);
   if (!Number.isFinite(offset)) return null;
-  const d = new Date(utcMs + offset * MINUTE_MS);
-  return { year: d.getUTCFullYear(), month: d.getUTCMonth() + 1, day: d.getUTCDate(), hour: d.getUTCHours(), minute: d.getUTCMinutes() };
+  const f = fieldsOfMs(utcMs + offset * MINUTE_MS);
+  return { year: f.year, month: f.month, day: f.day, hour: f.hour, minute: f.minute };
 }
 
-const pad2 = (n: number) => String(n).padStart(2, '0');
+const pad2 = (n: number): string => (n < 10 ? '0' + n : String(n));
 
 /** `YYYY-MM-DDTHH:MM`, the form every local time takes in Layline's output. */
 export function formatWallTime(w: WallTime): string {
@@ -180,7 +250,9 @@ export function formatWallTime(w: WallTime): string {
 
 /** ISO 8601 in UTC with `Z`, to the second: `2026-03-08T12:05:00Z`. */
 export function formatUtc(utcMs: number): string {
-  return new Date(utcMs).toISOString().replace(/\.\d{3}Z$/, 'Z');
+  if (!Number.isFinite(utcMs)) return 'Invalid Date';
+  const f = fieldsOfMs(utcMs);
+  return `${String(f.year).padStart(4, '0')}-${pad2(f.month)}-${pad2(f.day)}T${pad2(f.hour)}:${pad2(f.minute)}:${pad2(f.second)}Z`;
 }
 
 /** An offset as `UTC−05:00`, for messages. */
@@ -196,20 +268,10 @@ export function formatOffset(offsetMinutes: number): string {
  * Empty for an unknown zone, an empty or non-finite range, or a range over 400 days.
  */
 export function offsetChangesBetween(zone: string, fromMs: number, toMs: number): number[] {
-  if (!(toMs > fromMs) || toMs - fromMs > 400 * DAY_MS || !Number.isFinite(offsetMinutesAt(zone, fromMs)) || !Number.isFinite(offsetMinutesAt(zone, toMs))) return [];
+  if (!(toMs > fromMs) || toMs - fromMs > 400 * DAY_MS || fromMs < MIN_MS || toMs >= MAX_MS || !isValidZone(zone)) return [];
   const changes: number[] = [];
-  for (let day = Math.floor(fromMs / DAY_MS); day <= Math.floor(toMs / DAY_MS); day++) {
-    const before = offsetAtDayStart(zone, day);
-    if (before === offsetAtDayStart(zone, day + 1)) continue;
-    // Bisect to the minute: the offset is `before` on [lo, change) and different from hi on.
-    let lo = day * DAY_MS;
-    let hi = lo + DAY_MS;
-    while (hi - lo > MINUTE_MS) {
-      const mid = lo + Math.floor((hi - lo) / 2 / MINUTE_MS) * MINUTE_MS;
-      if (exactOffsetMinutes(zone, mid) === before) lo = mid;
-      else hi = mid;
-    }
-    if (hi > fromMs && hi <= toMs) changes.push(hi);
+  for (let year = utcYear(fromMs); year <= utcYear(toMs); year++) {
+    for (const c of yearOffsets(zone, year).changes) if (c.atMs > fromMs && c.atMs <= toMs) changes.push(c.atMs);
   }
   return changes;
 }
