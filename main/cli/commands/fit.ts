@@ -92,8 +92,7 @@ export const fitCommand: CliCommand = {
     };
 
     const source = file === '-' ? 'standard input' : file;
-    const table = readCsvTable(await io.readInput(file), source);
-    const prepared = adapter.prepare(table, values, source);
+    const prepared = await adapter.prepare({ path: file, source, io, readTable: async () => readCsvTable(await io.readInput(file), source) }, values);
 
     const bar = createProgressBar(io, `fit ${method}`);
     let result: FitResult;

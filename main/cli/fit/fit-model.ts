@@ -5,6 +5,7 @@ import type { FitResult } from '../../../shared/inference/fit-types';
 import type { NonCentredBlock } from '../../../shared/inference/centred-view';
 import type { Model } from '../../../shared/inference/model';
 import type { Rng } from '../../../shared/inference/rng';
+import type { CliIo } from '../io';
 import type { CsvTable } from './csv-columns';
 
 export type FlagValues = Readonly<Record<string, string | boolean | undefined>>;
@@ -25,6 +26,20 @@ export interface PreparedFit {
   summarise(result: FitResult, rng: Rng): FitSummary;
 }
 
+/**
+ * The input file as a model may read it: as a delimited table (the grouped model), or by its
+ * path with a reader of its own (e.g. a delay-history reader that streams CSV or Parquet).
+ */
+export interface FitInput {
+  /** The path as given on the command line ('-' for standard input). */
+  readonly path: string;
+  /** The path or 'standard input', for messages. */
+  readonly source: string;
+  readonly io: CliIo;
+  /** Reads the whole input as a delimited table with a header row. */
+  readTable(): Promise<CsvTable>;
+}
+
 export interface FitModelAdapter {
   /** The value of --model. */
   readonly name: string;
@@ -34,8 +49,8 @@ export interface FitModelAdapter {
   readonly flagUsage: readonly string[];
   /** parseArgs options for those flags (all strings). */
   readonly flags: Readonly<Record<string, { readonly type: 'string' }>>;
-  /** Builds the model; throws CliFailure for unusable data. `source` names the file in messages. */
-  prepare(table: CsvTable, flags: FlagValues, source: string): PreparedFit;
+  /** Reads the input and builds the model; throws CliFailure for unusable data. */
+  prepare(input: FitInput, flags: FlagValues): Promise<PreparedFit>;
 }
 
 /** Mean and sd of one constrained quantity over posterior draws. */

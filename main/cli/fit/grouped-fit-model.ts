@@ -7,9 +7,9 @@ import type { FitResult } from '../../../shared/inference/fit-types';
 import type { Rng } from '../../../shared/inference/rng';
 import { collapseWeighted } from '../../../shared/inference/weighted-data';
 import { CliFailure } from '../io';
-import { findColumn, numberCell, textCell, type CsvTable } from './csv-columns';
+import { findColumn, numberCell, textCell } from './csv-columns';
 import { RunningMoments } from '../../../shared/inference/diagnostics/running-moments';
-import type { FitModelAdapter, FlagValues, Moments, PreparedFit } from './fit-model';
+import type { FitInput, FitModelAdapter, FlagValues, Moments, PreparedFit } from './fit-model';
 import { posteriorDraws } from './posterior-draws';
 
 export interface GroupSummary {
@@ -54,7 +54,9 @@ export function groupPosteriorMoments(model: HierarchicalDelayModel, result: Fit
   });
 }
 
-function prepare(table: CsvTable, flags: FlagValues, source: string): PreparedFit {
+async function prepare(input: FitInput, flags: FlagValues): Promise<PreparedFit> {
+  const table = await input.readTable();
+  const { source } = input;
   const groupColumn = findColumn(table, flags['group-column'] as string | undefined, GROUP_DEFAULTS, '--group-column', source);
   const valueColumn = findColumn(table, flags['value-column'] as string | undefined, VALUE_DEFAULTS, '--value-column', source);
   if (groupColumn === valueColumn) throw new CliFailure(`--group-column and --value-column both name column '${table.header[groupColumn]}'`);

@@ -7,7 +7,8 @@ import type { Rng } from '../../../shared/inference/rng';
 export const APPROXIMATION_DRAWS = 4000;
 
 export function posteriorDraws(result: FitResult, rng: Rng): { draws: Float64Array; count: number } {
-  const stored = typeof result.diagnostics['chains'] === 'number' && typeof result.diagnostics['drawsPerChain'] === 'number';
-  const count = stored ? (result.diagnostics['chains'] as number) * (result.diagnostics['drawsPerChain'] as number) : APPROXIMATION_DRAWS;
+  // A sampler's result carries its stored draws; take all of them rather than resample.
+  const stored = 'samples' in result && result.samples instanceof Float64Array ? result.samples.length / result.names.length : 0;
+  const count = stored > 0 ? stored : APPROXIMATION_DRAWS;
   return { draws: result.draws(rng, count), count };
 }
