@@ -2,5 +2,6 @@
 import type { BenchSuite } from './suite';
 import { inferenceSuite } from './suites/inference';
 import { intakeSuite } from './suites/intake';
+import { riskSuite } from './suites/risk';
 
-export const suites: readonly BenchSuite[] = [inferenceSuite, intakeSuite];
+export const suites: readonly BenchSuite[] = [inferenceSuite, intakeSuite, riskSuite];

@@ -1,0 +1,149 @@
+// Benchmarks of the risk engine (issue 5): scoring a 1,000-traveller group with 3 connections
+// each, and the minimum layover of one connection.
+//
+// The posteriors are synthetic (typical-plus-disrupted Gumbel mixtures with parameter
+// uncertainty, the shape of the bundled models) so the figures do not depend on a fit.
+import { gumbelCdf, gumbelPdf, gumbelSample, gumbelSurvival } from '../../../shared/delay/gumbel';
+import type { DelayDistribution, DelayKind, PosteriorSource, RoutePosterior } from '../../../shared/delay/predictive';
+import { createRng } from '../../../shared/inference/rng';
+import type { Leg, ParsedTrips, Trip } from '../../../shared/itinerary/types';
+import { ConnectionPair, minimumLayover } from '../../../shared/risk/connection-probability';
+import { RouteTables } from '../../../shared/risk/delay-table';
+import { hashKey } from '../../../shared/risk/trip-simulation';
+import { scoreTrips } from '../../../shared/risk/score-trips';
+import { timeMedian, type BenchSuite } from '../suite';
+
+const DRAWS = 100;
+
+function mixtureDelay(mu: number, beta: number, w: number, mu2: number, beta2: number): DelayDistribution {
+  return {
+    cdf: (x) => (1 - w) * gumbelCdf(x, mu, beta) + w * gumbelCdf(x, mu2, beta2),
+    survival: (x) => (1 - w) * gumbelSurvival(x, mu, beta) + w * gumbelSurvival(x, mu2, beta2),
+    pdf: (x) => (1 - w) * gumbelPdf(x, mu, beta) + w * gumbelPdf(x, mu2, beta2),
+    sample: (rng) => (rng.uniform() < w ? gumbelSample(rng, mu2, beta2) : gumbelSample(rng, mu, beta)),
+  };
+}
+
+/** Synthetic posteriors: per route, draws of a 5-parameter Gumbel mixture. */
+export function benchSource(): PosteriorSource {
+  const cache = new Map<string, RoutePosterior>();
+  return {
+    info: { id: 'bench-synthetic', model: 'gumbel mixture (synthetic)', source: 'main/bench/suites/risk.ts' },
+    route(origin: string, destination: string, kind: DelayKind): RoutePosterior {
+      const key = `${origin}-${destination}:${kind}`;
+      const known = cache.get(key);
+      if (known) return known;
+      const rng = createRng(hashKey(key));
+      const mu = -4 + 8 * rng.uniform();
+      const beta = 9 + 6 * rng.uniform();
+      const draws: DelayDistribution[] = [];
+      for (let s = 0; s < DRAWS; s++) {
+        draws.push(mixtureDelay(mu + 1.5 * rng.normal(), beta * Math.exp(0.06 * rng.normal()), 0.06 + 0.04 * rng.uniform(), 25 + 10 * rng.normal(), 45 + 10 * rng.uniform()));
+      }
+      const posterior: RoutePosterior = { origin, destination, kind, pooling: 'route', flights: 300, derived: false, drawCount: DRAWS, draw: (s) => draws[s] as DelayDistribution };
+      cache.set(key, posterior);
+      return posterior;
+    },
+  };
+}
+
+const ORIGINS = ['MSN', 'DSM', 'OMA', 'ICT', 'TUL', 'LIT', 'BOI', 'GEG', 'FAT', 'RNO', 'ABQ', 'ELP', 'SAT', 'MSY', 'BHM', 'CHS', 'ROC', 'SYR', 'ALB', 'PWM'];
+const FIRST_HUBS = ['ORD', 'DEN', 'ATL'];
+const GATEWAYS = ['JFK', 'BOS'];
+const EUROPEAN_HUBS = ['LHR', 'CDG', 'FRA', 'AMS'];
+
+function leg(flight: string, from: string, to: string, departMs: number, minutes: number, line: number): Leg {
+  const arriveMs = departMs + minutes * 60000;
+  const local = (ms: number) => new Date(ms).toISOString().slice(0, 16);
+  return {
+    flight, from, to, line, booking: '',
+    departLocal: local(departMs), arriveLocal: local(arriveMs),
+    departUtc: new Date(departMs).toISOString(), arriveUtc: new Date(arriveMs).toISOString(),
+    fromZone: 'UTC', toZone: 'UTC', departUtcMs: departMs, arriveUtcMs: arriveMs,
+  };
+}
+
+/**
+ * 1,000 invented travellers to an all-hands in Lisbon, 4 legs (3 connections) each, over
+ * two travel days. Flights are shared the way a group's are: one flight per route and day.
+ */
+export function benchTrips(travelers = 1000): ParsedTrips {
+  const rng = createRng(2026);
+  const trips: Trip[] = [];
+  const pick = <T>(list: readonly T[]): T => list[rng.int(list.length)] as T;
+  for (let i = 0; i < travelers; i++) {
+    const day = Date.UTC(2026, 4, 10 + rng.int(2), 11, 0);
+    const path = [pick(ORIGINS), pick(FIRST_HUBS), pick(GATEWAYS), pick(EUROPEAN_HUBS), 'LIS'];
+    const legs: Leg[] = [];
+    let t = day;
+    for (let k = 0; k + 1 < path.length; k++) {
+      const from = path[k] as string;
+      const to = path[k + 1] as string;
+      const minutes = k === 2 ? 420 : 70 + (hashKey(from + to) % 120);
+      // The same flight for everyone on a route and day: its number and times come from the route.
+      const flight = `LX${100 + (hashKey(`${from}${to}`) % 900)}`;
+      const depart = Math.max(t + (50 + (hashKey(`${to}${from}`) % 80)) * 60000, day + k * 5 * 3600000);
+      legs.push(leg(flight, from, to, depart, minutes, i * 4 + k + 2));
+      t = depart + minutes * 60000;
+    }
+    const connections = legs.slice(0, -1).map((l, k) => {
+      const next = legs[k + 1] as Leg;
+      return { airport: l.to, departAirport: next.from, inboundLeg: k, layoverMinutes: Math.round((next.departUtcMs - l.arriveUtcMs) / 60000), flags: [] };
+    });
+    trips.push({ id: `traveller-${i}/all-hands/`, traveler: `Traveller ${i}`, trip: 'all-hands', option: '', legs, connections, deadlineLocal: null, deadlineUtc: null });
+  }
+  return { format: 'csv', trips, problems: [] };
+}
+
+const COUNTRIES: Record<string, string> = { LHR: 'GB', CDG: 'FR', FRA: 'DE', AMS: 'NL', LIS: 'PT' };
+const countryOf = (code: string) => COUNTRIES[code] ?? 'US';
+
+export const riskSuite: BenchSuite = {
+  name: 'risk',
+  run: async (log) => {
+    const parsed = benchTrips();
+    const flights = new Set(parsed.trips.flatMap((t) => t.legs.map((l) => `${l.flight} ${l.departLocal.slice(0, 10)}`)));
+    log(`group: ${parsed.trips.length} travellers, ${parsed.trips.reduce((n, t) => n + t.connections.length, 0)} connections, ${flights.size} unique flights, ${DRAWS} posterior draws per route`);
+    let summary = '';
+    const groupMs = await timeMedian(() => {
+      // A fresh source each run: every route is tabulated again, as in a new `layline score`.
+      const scored = scoreTrips(parsed, benchSource(), { countryOf, seed: 1 });
+      summary = `expected misconnecting ${scored.group.expectedMisconnecting.toFixed(1)}, ${scored.simulations} simulations`;
+    }, 5);
+    log(summary);
+
+    // Minimum layover of one connection, on route tables already built (once per route per run).
+    const source = benchSource();
+    const pairs: { arrival: RouteTables; departure: RouteTables }[] = [];
+    for (const [a, b, c] of [['ORD', 'JFK', 'LHR'], ['DEN', 'BOS', 'CDG'], ['ATL', 'JFK', 'FRA'], ['MSN', 'ORD', 'JFK'], ['JFK', 'AMS', 'LIS']] as const) {
+      const arrival = new RouteTables(source.route(a, b, 'arrival'), DRAWS);
+      const departure = new RouteTables(source.route(b, c, 'departure'), DRAWS);
+      for (let t = 0; t < DRAWS; t++) {
+        arrival.table(t);
+        departure.table(t);
+      }
+      pairs.push({ arrival, departure });
+    }
+    const searches: number[] = [];
+    for (let rep = 0; rep < 40; rep++) {
+      const { arrival, departure } = pairs[rep % pairs.length] as (typeof pairs)[number];
+      const pair = new ConnectionPair(arrival, departure);
+      const start = performance.now();
+      minimumLayover(pair, 45 + (rep % 3) * 15, 0.9);
+      searches.push(performance.now() - start);
+    }
+    searches.sort((x, y) => x - y);
+    const searchMs = searches[Math.floor(searches.length / 2)] ?? NaN;
+
+    const tabulateMs = await timeMedian(() => {
+      const fresh = benchSource();
+      const arrival = new RouteTables(fresh.route('ORD', 'JFK', 'arrival'), DRAWS);
+      for (let t = 0; t < DRAWS; t++) arrival.table(t);
+    }, 5);
+    return [
+      { name: '1,000 travellers x 3 connections, intervals + group', ms: groupMs, targetMs: 200, notes: summary },
+      { name: 'minimum layover, one connection (routes tabulated)', ms: searchMs, targetMs: 1, notes: `median of ${searches.length} searches, ${DRAWS} draws` },
+      { name: 'tabulate one route (all draws)', ms: tabulateMs, notes: 'once per route and kind per scoring run' },
+    ];
+  },
+};
