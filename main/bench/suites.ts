@@ -3,5 +3,6 @@ import type { BenchSuite } from './suite';
 import { inferenceSuite } from './suites/inference';
 import { intakeSuite } from './suites/intake';
 import { riskSuite } from './suites/risk';
+import { appSuite } from './suites/app';
 
-export const suites: readonly BenchSuite[] = [inferenceSuite, intakeSuite, riskSuite];
+export const suites: readonly BenchSuite[] = [intakeSuite, riskSuite, inferenceSuite, appSuite];

@@ -27,7 +27,7 @@ const jobs = [
   // playwright-core stays external: it reads its own package files at run time and cannot be bundled.
   build({ ...node, entryPoints: { layline: 'main/cli/layline.ts' }, outdir: 'dist/cli', outExtension: { '.js': '.cjs' }, banner: { js: '#!/usr/bin/env node' }, external: ['playwright-core'] }),
   build({ ...node, entryPoints: { serve: 'main/web/serve.ts' }, outdir: 'dist/web', outExtension: { '.js': '.cjs' } }),
-  build({ ...node, entryPoints: { run: 'main/bench/run.ts' }, outdir: 'dist/bench', outExtension: { '.js': '.cjs' } }),
+  build({ ...node, entryPoints: { run: 'main/bench/run.ts' }, outdir: 'dist/bench', outExtension: { '.js': '.cjs' }, external: ['playwright-core'] }),
   build({
     absWorkingDir: root,
     bundle: true,

@@ -157,6 +157,19 @@ export function SettingsView({ settings, theme, bundle, bundleError, onSettings,
             <dd>{bundle.model}</dd>
             <dt>Source</dt>
             <dd>{bundle.source}</dd>
+            {bundle.provenance && (
+              <>
+                <dt>Data</dt>
+                <dd>
+                  {bundle.provenance.title}: {bundle.provenance.flights.toLocaleString('en-US')} flights on {bundle.provenance.routes.toLocaleString('en-US')} routes between {bundle.provenance.airports} airports, {bundle.provenance.dateFirst} to{' '}
+                  {bundle.provenance.dateLast}
+                </dd>
+                <dt>Method</dt>
+                <dd>{bundle.provenance.method}</dd>
+                <dt>License</dt>
+                <dd>{bundle.provenance.license}</dd>
+              </>
+            )}
           </dl>
         ) : (
           <p role="alert">{bundleError ?? 'Loading the bundle…'}</p>

@@ -1,11 +1,17 @@
 // Trips and connections: one group of rows per trip, filter and sort controls, arrow-key
 // navigation between rows, and the selected connection's detail beside the table.
 import type { ComponentChildren } from 'preact';
-import { useEffect, useMemo, useRef } from 'preact/hooks';
+import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import type { Analysis, ConnectionView, TripView } from '../../shared/api/analysis-schema';
 import { clock, dayMarker, duration, localDay, signedMinutes } from '../app/format';
 import { airportsOf, filterTrips, flagWords, SORT_LABELS, sortTrips, type SortKey, type TripFilter } from '../state/trip-table';
 import { ProbabilityText, RiskGauge } from './risk-gauge';
+
+/**
+ * Trips drawn at first and added per step as the list scrolls: a long paste shows its first
+ * screens at once instead of building every row before anything appears.
+ */
+export const TRIPS_PER_STEP = 60;
 
 export interface Selection {
   readonly tripId: string;
@@ -78,8 +84,24 @@ function ConnectionCells({ trip, c, target }: { trip: TripView; c: ConnectionVie
 export function TripsView({ analysis, filter, sort, target, selection, onFilter, onSort, onSelect, detail }: TripsViewProps) {
   const shown = useMemo(() => sortTrips(filterTrips(analysis.trips, filter, target), sort), [analysis, filter, sort, target]);
   const airports = useMemo(() => airportsOf(analysis.trips), [analysis]);
-  const rows = useMemo(() => shown.flatMap((t) => [rowKey(t.id, null), ...t.connections.map((c) => rowKey(t.id, c.index))]), [shown]);
+  const [limit, setLimit] = useState(TRIPS_PER_STEP);
+  useEffect(() => setLimit(TRIPS_PER_STEP), [filter, sort]);
+  // A selection made elsewhere (the group screen) must be drawn to be seen.
+  const selectedAt = selection ? shown.findIndex((t) => t.id === selection.tripId) : -1;
+  const drawnCount = Math.max(limit, selectedAt + 1);
+  const drawn = useMemo(() => shown.slice(0, drawnCount), [shown, drawnCount]);
+  const rows = useMemo(() => drawn.flatMap((t) => [rowKey(t.id, null), ...t.connections.map((c) => rowKey(t.id, c.index))]), [drawn]);
   const table = useRef<HTMLTableElement>(null);
+  const sentinel = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    const el = sentinel.current;
+    if (!el || drawnCount >= shown.length) return undefined;
+    const observer = new IntersectionObserver((entries) => {
+      if (entries.some((e) => e.isIntersecting)) setLimit((n) => n + TRIPS_PER_STEP);
+    });
+    observer.observe(el);
+    return () => observer.disconnect();
+  }, [drawnCount, shown.length]);
   const activeKey = selection ? rowKey(selection.tripId, selection.connectionIndex) : rows[0] ?? null;
 
   const focusRow = (key: string) => {
@@ -101,8 +123,10 @@ export function TripsView({ analysis, filter, sort, target, selection, onFilter,
       const next = rows[Math.min(rows.length - 1, Math.max(0, i))];
       if (next) focusRow(next);
     };
-    if (e.key === 'ArrowDown') go(at + 1);
-    else if (e.key === 'ArrowUp') go(at - 1);
+    if (e.key === 'ArrowDown') {
+      if (at === rows.length - 1 && drawnCount < shown.length) setLimit(drawnCount + TRIPS_PER_STEP);
+      go(at + 1);
+    } else if (e.key === 'ArrowUp') go(at - 1);
     else if (e.key === 'Home') go(0);
     else if (e.key === 'End') go(rows.length - 1);
     else if (e.key === 'Enter' || e.key === ' ') selectKey(key);
@@ -171,7 +195,7 @@ export function TripsView({ analysis, filter, sort, target, selection, onFilter,
                 <th scope="col">Notes</th>
               </tr>
             </thead>
-            {shown.map((trip) => {
+            {drawn.map((trip) => {
               const tripKey = rowKey(trip.id, null);
               return (
                 <tbody key={trip.id} aria-label={`Trip of ${trip.traveler}${trip.option ? `, option ${trip.option}` : ''}`} data-trip={trip.id}>
@@ -227,6 +251,13 @@ export function TripsView({ analysis, filter, sort, target, selection, onFilter,
             })}
           </table>
           {shown.length === 0 && <p class="empty">No trips match the filter.</p>}
+          {drawnCount < shown.length && (
+            <div ref={sentinel} class="more">
+              <button type="button" onClick={() => setLimit(drawnCount + TRIPS_PER_STEP)}>
+                Show more trips ({shown.length - drawnCount} not drawn yet)
+              </button>
+            </div>
+          )}
         </div>
         {detail}
       </div>

@@ -125,6 +125,19 @@ export const BundleViewSchema = v.object({
   id: v.string(),
   model: v.string(),
   source: v.string(),
+  /** Where the bundle's data came from and what it covers; absent for a source that is not a bundle file. */
+  provenance: v.optional(
+    v.object({
+      title: v.string(),
+      license: v.string(),
+      dateFirst: v.string(),
+      dateLast: v.string(),
+      flights: v.number(),
+      routes: v.number(),
+      airports: v.number(),
+      method: v.string(),
+    }),
+  ),
 });
 export type BundleView = v.InferOutput<typeof BundleViewSchema>;
 

@@ -58,6 +58,27 @@ export function rebinMargin(margin: MarginDistribution, width: number): { margin
   return [...bins.entries()].sort((a, b) => a[0] - b[0]).map(([marginMinutes, p]) => ({ marginMinutes, probability: Math.min(1, Math.max(0, p)) }));
 }
 
+interface BundleMetadata {
+  readonly title: string;
+  readonly license: string;
+  readonly dateRange: { readonly first: string; readonly last: string };
+  readonly flights: number;
+  readonly routes: number;
+  readonly airports: number;
+  readonly method: string;
+}
+
+/** The source's identity, plus the bundle file's provenance when the source is one. */
+export function bundleView(source: PosteriorSource): BundleView {
+  const view: BundleView = { id: source.info.id, model: source.info.model, source: source.info.source };
+  const meta = (source as { bundle?: { metadata?: BundleMetadata } }).bundle?.metadata;
+  if (!meta) return view;
+  return {
+    ...view,
+    provenance: { title: meta.title, license: meta.license, dateFirst: meta.dateRange.first, dateLast: meta.dateRange.last, flights: meta.flights, routes: meta.routes, airports: meta.airports, method: meta.method },
+  };
+}
+
 function clamp01(p: number): number {
   return Math.min(1, Math.max(0, p));
 }
@@ -100,7 +121,7 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
         problems: [...scored.problems],
         trips: scored.trips.map(scoredTripView),
         group: scored.trips.length ? groupView(scored) : null,
-        bundle: { ...scored.bundle },
+        bundle: bundleView(loaded),
         scoringError: null,
         intervalLevel: scored.intervalLevel,
         caution: scored.caution,
@@ -127,7 +148,7 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
 
     async getBundleInfo() {
       try {
-        return { bundle: { ...(await getSource()).info }, error: null };
+        return { bundle: bundleView(await getSource()), error: null };
       } catch (err) {
         return { bundle: null, error: err instanceof Error ? err.message : String(err) };
       }

@@ -38,7 +38,7 @@ export async function pasteTrips(page: Page, text: string): Promise<void> {
 
 /** Number of canvas pixels that are not fully transparent. */
 export async function paintedPixels(page: Page, testId: string): Promise<number> {
-  await page.getByTestId(testId).waitFor();
+  await page.getByTestId(testId).first().waitFor();
   return page.evaluate((id) => {
     const canvas = document.querySelector<HTMLCanvasElement>(`[data-testid="${id}"]`);
     const ctx = canvas?.getContext('2d');
