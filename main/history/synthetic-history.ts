@@ -71,6 +71,8 @@ export interface SyntheticHistoryOptions {
   readonly divertedShare?: number;
   /** Use only the first `airports` airports (2..16); default all. */
   readonly airports?: number;
+  /** Share of disrupted flights on every route (default 0.15); 0 gives one Gumbel per route. */
+  readonly disruptedWeight?: number;
 }
 
 export interface SyntheticHistory {
@@ -85,7 +87,7 @@ export function sampleSyntheticDelay(route: SyntheticRoute, rng: Rng): number {
 }
 
 /** The routes' true parameters for a seed: every ordered pair of the chosen airports. */
-export function syntheticRoutes(seed: number, airportCount = AIRPORTS.length): SyntheticRoute[] {
+export function syntheticRoutes(seed: number, airportCount = AIRPORTS.length, disruptedWeight = 0.15): SyntheticRoute[] {
   const rng = createRng(seed);
   const used = AIRPORTS.slice(0, Math.max(2, Math.min(AIRPORTS.length, airportCount)));
   const originEffect = used.map(() => 4 * rng.normal());
@@ -99,7 +101,7 @@ export function syntheticRoutes(seed: number, airportCount = AIRPORTS.length): S
         destination: d[0],
         location: -4 + originEffect[i]! + destEffect[j]! + 1.5 * rng.normal(),
         scale: 9 * Math.exp(0.15 * rng.normal()),
-        disruptedWeight: 0.15,
+        disruptedWeight,
         disruptedShift: 25,
         disruptedWiden: 4,
         departureOffset: 6,
@@ -116,7 +118,7 @@ function hhmm(minutes: number): string {
 
 /** Writes `rows` flights to `file` and returns the true parameters behind them. */
 export async function writeSyntheticBtsCsv(file: string, options: SyntheticHistoryOptions): Promise<SyntheticHistory> {
-  const routes = syntheticRoutes(options.seed, options.airports);
+  const routes = syntheticRoutes(options.seed, options.airports, options.disruptedWeight);
   const byCode = new Map(AIRPORTS.map((a) => [a[0], a]));
   const rng = createRng(options.seed + 1);
   const out = createWriteStream(file);
