@@ -3,7 +3,7 @@
 //
 // Columns are matched case-insensitively, ignoring spaces and punctuation, with aliases.
 import { excerpt, isBlank, MAX_LINE_LENGTH, type InputLine } from './input-lines';
-import { LineProblems, type RawLeg } from './normalise-leg';
+import { LineProblems, tooLongLine, type RawLeg } from './normalise-leg';
 
 export type Column =
   | 'traveler' | 'trip' | 'option' | 'flight' | 'from' | 'to' | 'depart' | 'arrive' | 'booking' | 'deadline'
@@ -143,10 +143,9 @@ export function readDelimited(lines: readonly InputLine[], headerIndex: number, 
   for (let i = headerIndex + 1; i < lines.length; i++) {
     const first = lines[i];
     if (!first || isBlank(first.text)) continue;
-    if (first.text.length > MAX_LINE_LENGTH) {
-      const p = new LineProblems(first.number, excerpt(first.text, 200));
-      p.error('line-too-long', `line is ${first.text.length} characters long; not read`);
-      problems.push(p);
+    const tooLong = tooLongLine(first);
+    if (tooLong) {
+      problems.push(tooLong);
       continue;
     }
     // Join physical lines while a quoted cell is open (RFC 4180 allows line breaks inside quotes).

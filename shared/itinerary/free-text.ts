@@ -5,9 +5,9 @@
 // option or booking for the legs below. Every other line is reported, never dropped.
 import { findAirport } from '../time/airports';
 import { formatWallTime } from '../time/zones';
-import { excerpt, isBlank, MAX_LINE_LENGTH, type InputLine } from './input-lines';
+import { excerpt, isBlank, type InputLine } from './input-lines';
 import { findDates, findTimes, type CalendarDate, type ClockTime } from './local-time';
-import { LineProblems, type RawLeg } from './normalise-leg';
+import { LineProblems, tooLongLine, type RawLeg } from './normalise-leg';
 
 /** Airline designator (two characters, at least one a letter) and flight number (IATA style, common practice). */
 export const FLIGHT_RE = /(?<![A-Z0-9])((?:[A-Z][A-Z0-9]|[0-9][A-Z]))\s?(\d{1,4}[A-Z]?)(?![A-Z0-9:.])/;
@@ -61,13 +61,12 @@ export function readFreeText(lines: readonly InputLine[]): FreeTextRead {
 
   for (const line of lines) {
     if (isBlank(line.text)) continue;
-    const p = new LineProblems(line.number, line.text);
-    if (line.text.length > MAX_LINE_LENGTH) {
-      const long = new LineProblems(line.number, excerpt(line.text, 200));
-      long.error('line-too-long', `line is ${line.text.length} characters long; not read`);
-      problems.push(long);
+    const tooLong = tooLongLine(line);
+    if (tooLong) {
+      problems.push(tooLong);
       continue;
     }
+    const p = new LineProblems(line.number, line.text);
     const text = line.text;
 
     const option = OPTION_RE.exec(text);

@@ -5,6 +5,7 @@
 // is the one that makes the flight last more than 0 and under 20 hours, if exactly one does.
 import { findAirport, suggestAirports, type Airport } from '../time/airports';
 import { formatOffset, formatUtc, formatWallTime, offsetMinutesAt, resolveLocalTime, wallTimeMs, type LocalResolution, type WallTime } from '../time/zones';
+import { excerpt, MAX_LINE_LENGTH, type InputLine } from './input-lines';
 import { addDays, parseLocalDateTime, type CalendarDate, type ClockTime } from './local-time';
 import type { Leg, Problem, Severity } from './types';
 
@@ -60,6 +61,14 @@ export class LineProblems {
   get hasError(): boolean {
     return this.list.some((p) => p.severity === 'error');
   }
+}
+
+/** An error for a line too long to read, or null when the line is fine (the message keeps only its start). */
+export function tooLongLine(line: InputLine): LineProblems | null {
+  if (line.text.length <= MAX_LINE_LENGTH) return null;
+  const p = new LineProblems(line.number, excerpt(line.text, 200));
+  p.error('line-too-long', `line is ${line.text.length} characters long; not read`);
+  return p;
 }
 
 /** The airport for a code, or an error naming the line with close matches. */

@@ -73,6 +73,22 @@ describe('CSV with a header row', () => {
   });
 });
 
+describe('quoted cells over several lines (RFC 4180)', () => {
+  it('reads a row whose cell holds a line break, and accounts for the continuation line', () => {
+    const r = parseTrips('traveler,flight,from,depart,to,arrive\n"Ada\nLovelace",LH 400,FRA,2026-06-01 13:10,JFK,15:50\n');
+    expect(r.trips[0]?.traveler).toBe('Ada\nLovelace');
+    expect(r.trips[0]?.legs[0]?.line).toBe(2);
+    expect(r.contextLines).toEqual([1, 3]);
+  });
+
+  it('reports a quote that never closes instead of swallowing the rest of the file', () => {
+    const rows = ['traveler,flight,from,depart,to,arrive', '"Ada,LH 400,FRA,2026-06-01 13:10,JFK,15:50', ...Array.from({ length: 25 }, (_, i) => `Ben,LH ${410 + i},FRA,2026-06-${String(2 + i).padStart(2, '0')} 13:10,JFK,15:50`)];
+    const r = parseTrips(rows.join('\n'));
+    expect(codes(r)[0]).toBe('2 error unterminated-quote');
+    expect(r.trips.flatMap((t) => t.legs).length).toBe(25);
+  });
+});
+
 describe('TSV pasted from a spreadsheet', () => {
   const parsed = parseTrips(fixture('spreadsheet.tsv'));
 
@@ -186,6 +202,37 @@ describe('iCalendar (RFC 5545)', () => {
     const r = parseTrips(ics);
     expect(codes(r)).toEqual(['2 error ics-unreadable']);
     expect(r.trips[0]?.legs.map((l) => l.flight)).toEqual(['LH401']);
+  });
+});
+
+describe('iCalendar edge cases (RFC 5545)', () => {
+  const cal = (...event: string[]) => ['BEGIN:VCALENDAR', 'VERSION:2.0', 'BEGIN:VEVENT', ...event, 'END:VEVENT', 'END:VCALENDAR'].join('\r\n');
+
+  it('reads floating times as local time at each airport, with a warning (RFC 5545 §3.3.5 form #1)', () => {
+    const r = parseTrips(cal('SUMMARY:AF 11 CDG-JFK', 'DTSTART:20260701T103000', 'DTEND:20260701T130000'));
+    expect(legsOf(r.trips[0])).toEqual(['AF11 CDG 2026-07-01T10:30 2026-07-01T08:30:00Z → JFK 2026-07-01T13:00 2026-07-01T17:00:00Z']);
+    expect(codes(r)).toEqual(['3 warning ics-floating-time', '3 warning ics-floating-time']);
+  });
+
+  it('takes the arrival from DURATION when DTEND is missing (RFC 5545 §3.8.2.5)', () => {
+    const r = parseTrips(cal('SUMMARY:QF 1 SYD-SIN', 'DTSTART;TZID=Australia/Sydney:20260701T160000', 'DURATION:PT8H20M'));
+    // 16:00 AEST = 06:00Z; + 8 h 20 min = 14:20Z = 22:20 in Singapore (+08).
+    expect(legsOf(r.trips[0])).toEqual(['QF1 SYD 2026-07-01T16:00 2026-07-01T06:00:00Z → SIN 2026-07-01T22:20 2026-07-01T14:20:00Z']);
+  });
+
+  it('reads the airports from LOCATION when SUMMARY names only the destination', () => {
+    const r = parseTrips(cal('SUMMARY:Flight to JFK (BA 117)', 'LOCATION:London Heathrow (LHR)', 'DTSTART:20260701T072500Z', 'DTEND:20260701T150500Z'));
+    expect(r.trips[0]?.legs.map((l) => `${l.flight} ${l.from}-${l.to}`)).toEqual(['BA117 LHR-JFK']);
+  });
+
+  it('rejects all-day events and unknown TZIDs, naming the event line', () => {
+    expect(codes(parseTrips(cal('SUMMARY:UA 1 EWR-ORD', 'DTSTART;VALUE=DATE:20260701', 'DTEND;VALUE=DATE:20260702')))).toContain('3 error ics-all-day');
+    expect(codes(parseTrips(cal('SUMMARY:UA 1 EWR-ORD', 'DTSTART;TZID=Mars Standard Time:20260701T080000', 'DTEND:20260701T120000Z')))).toContain('3 error ics-unknown-zone');
+  });
+
+  it('reads a vendor TZID that ends in an IANA name', () => {
+    const r = parseTrips(cal('SUMMARY:UA 1 EWR-ORD', 'DTSTART;TZID=/mozilla.org/20050126_1/America/New_York:20260701T080000', 'DTEND;TZID=America/Chicago:20260701T094500'));
+    expect(r.trips[0]?.legs[0]?.departUtc).toBe('2026-07-01T12:00:00Z');
   });
 });
 
