@@ -13,40 +13,38 @@ import type { DrawTable, RouteTables } from './delay-table';
 /** Longest layover the minimum-layover search considers (minutes): a longer gap is a stopover. */
 export const MAX_LAYOVER_MINUTES = 1440;
 
-/** P(A - D <= m) under one draw, for a whole-minute m. */
+/**
+ * P(A - D <= m) under one draw, for a whole-minute m.
+ *
+ * Every term w_i F_A(m + d_i) is non-decreasing in m and the terms are always added in the same
+ * order, so the floating-point sum is non-decreasing in m too (rounding is monotone): the exact
+ * minimum-layover check relies on that.
+ */
 export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m: number): number {
   const shift = m + departure.lo - arrival.lo;
-  const nD = departure.weight.length;
   const nA = arrival.cdf.length;
-  // Grid points i of D whose m + d_i falls on A's grid: 0 <= i + shift < nA.
-  const iStart = Math.max(0, -shift);
-  const iEnd = Math.min(nD, nA - shift);
   const w = departure.weight;
   const fa = arrival.cdf;
-  let sum = 0;
+  const heavy = arrival.heavyTail;
+  const above = arrival.beyondHi;
+  let sum = departure.lowMass * arrival.cdfAt(m + departure.lo);
   // The whole-minute core of D, then its sparse tail nodes (the weights between them are zero).
-  const coreEnd = Math.min(iEnd, departure.coreLength);
-  for (let i = iStart; i < coreEnd; i++) sum += w[i]! * fa[i + shift]!;
+  const coreLength = departure.coreLength;
+  const inStart = Math.min(coreLength, Math.max(0, -shift));
+  const inEnd = Math.max(inStart, Math.min(coreLength, nA - shift));
+  // Core points below A's grid meet F_A = 0 and add nothing.
+  for (let i = inStart; i < inEnd; i++) sum += w[i]! * fa[i + shift]!;
+  for (let i = inEnd; i < coreLength; i++) sum += w[i]! * (heavy ? arrival.cdfAt(m + departure.lo + i) : above);
   const tail = departure.tailIndex;
   for (let k = 0; k < tail.length; k++) {
     const i = tail[k]!;
-    if (i >= iEnd) break;
-    if (i >= iStart) sum += w[i]! * fa[i + shift]!;
+    const j = i + shift;
+    if (j < 0) continue;
+    sum += w[i]! * (j < nA ? fa[j]! : heavy ? arrival.cdfAt(m + departure.lo + i) : above);
   }
-  // Points of D beyond A's grid (F_A there is ~1), and D's own mass beyond its grid.
-  const firstAbove = Math.max(iStart, iEnd);
-  if (firstAbove < nD || departure.highMass > 0) {
-    if (arrival.heavyTail) {
-      for (let i = firstAbove; i < nD; i++) if (w[i]! > 0) sum += w[i]! * arrival.cdfAt(m + departure.lo + i);
-      sum += departure.highMass * arrival.cdfAt(m + departure.hi);
-    } else {
-      // weightAbove already ends with D's mass beyond its grid.
-      sum += (departure.weightAbove[Math.min(firstAbove, nD)] ?? 0) * (firstAbove < nD ? arrival.beyondHi : arrival.cdfAt(m + departure.hi));
-    }
-  }
-  // D's mass below its grid meets F_A(m + lo_D) or less: an upper bound of at most 1e-12.
-  sum += departure.lowMass * arrival.cdfAt(m + departure.lo);
-  return Math.min(1, Math.max(0, sum));
+  // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under 1e-7.
+  sum += departure.highMass * arrival.cdfAt(m + departure.hi);
+  return Math.min(1, sum);
 }
 
 /** The inbound arrival posterior and the outbound departure posterior of one connection. */
