@@ -140,7 +140,12 @@ export function warmStart(model: TailMixtureModel, natural: Float64Array, origin
   }
 }
 
-/** Conditional modes of population means, airport effects and sds given the route parameters. */
+/**
+ * Given the route parameters, re-solves the Gaussian hierarchy: population means and airport
+ * effects at their conditional modes (Gauss-Seidel), the route sd at its conditional mode and
+ * the airport sds by the EM update sd^2 = mean(A^2 + Var A), which counts each effect's
+ * uncertainty and so does not collapse to zero. Airport coordinates are stored non-centred.
+ */
 function updateHierarchy(model: TailMixtureModel, natural: Float64Array, originOf: Int32Array, destinationOf: Int32Array): void {
   const L = model.layout;
   const { k } = L;
@@ -150,45 +155,60 @@ function updateHierarchy(model: TailMixtureModel, natural: Float64Array, originO
     routesFrom[originOf[r]!]! += 1;
     routesTo[destinationOf[r]!]! += 1;
   }
-  const sumA = new Float64Array(L.airports);
-  const sumB = new Float64Array(L.airports);
+  const A = new Float64Array(L.airports);
+  const B = new Float64Array(L.airports);
+  const sum = new Float64Array(L.airports);
   for (let j = 0; j < k; j++) {
     const phiAt = (r: number) => natural[L.phi + r * k + j]!;
-    const A = (a: number) => natural[L.origin + a * k + j]!;
-    const B = (a: number) => natural[L.destination + a * k + j]!;
+    let sdA = Math.exp(natural[L.logSdOrigin + j]!);
+    let sdB = Math.exp(natural[L.logSdDestination + j]!);
+    let varRoute = Math.exp(2 * natural[L.logSdRoute + j]!);
+    for (let a = 0; a < L.airports; a++) {
+      A[a] = sdA * natural[L.origin + a * k + j]!;
+      B[a] = sdB * natural[L.destination + a * k + j]!;
+    }
+    let pop = natural[L.pop + j]!;
     for (let pass = 0; pass < 5; pass++) {
       let s = 0;
-      for (let r = 0; r < L.routes; r++) s += phiAt(r) - A(originOf[r]!) - B(destinationOf[r]!);
-      natural[L.pop + j] = s / L.routes;
-      const pop = natural[L.pop + j]!;
-      const varRoute = Math.exp(2 * natural[L.logSdRoute + j]!);
-      sumA.fill(0);
-      for (let r = 0; r < L.routes; r++) sumA[originOf[r]!]! += phiAt(r) - pop - B(destinationOf[r]!);
-      const ratioA = varRoute / Math.exp(2 * natural[L.logSdOrigin + j]!);
-      for (let a = 0; a < L.airports; a++) natural[L.origin + a * k + j] = sumA[a]! / (routesFrom[a]! + ratioA);
-      sumB.fill(0);
-      for (let r = 0; r < L.routes; r++) sumB[destinationOf[r]!]! += phiAt(r) - pop - A(originOf[r]!);
-      const ratioB = varRoute / Math.exp(2 * natural[L.logSdDestination + j]!);
-      for (let a = 0; a < L.airports; a++) natural[L.destination + a * k + j] = sumB[a]! / (routesTo[a]! + ratioB);
-      let ss = 0;
-      for (let r = 0; r < L.routes; r++) ss += (phiAt(r) - pop - A(originOf[r]!) - B(destinationOf[r]!)) ** 2;
-      natural[L.logSdRoute + j] = 0.5 * Math.log(Math.max(ss / L.routes, 1e-8));
-      let sa = 0;
-      let sb = 0;
-      let na = 0;
-      let nb = 0;
+      for (let r = 0; r < L.routes; r++) s += phiAt(r) - A[originOf[r]!]! - B[destinationOf[r]!]!;
+      pop = s / L.routes;
+      sum.fill(0);
+      for (let r = 0; r < L.routes; r++) sum[originOf[r]!]! += phiAt(r) - pop - B[destinationOf[r]!]!;
+      let ssA = 0;
+      let nA = 0;
       for (let a = 0; a < L.airports; a++) {
+        const precision = routesFrom[a]! / varRoute + 1 / (sdA * sdA);
+        A[a] = sum[a]! / varRoute / precision;
         if (routesFrom[a]! > 0) {
-          sa += A(a) ** 2;
-          na++;
-        }
-        if (routesTo[a]! > 0) {
-          sb += B(a) ** 2;
-          nb++;
+          ssA += A[a]! * A[a]! + 1 / precision;
+          nA++;
         }
       }
-      natural[L.logSdOrigin + j] = 0.5 * Math.log(Math.max(sa / Math.max(na, 1), 1e-8));
-      natural[L.logSdDestination + j] = 0.5 * Math.log(Math.max(sb / Math.max(nb, 1), 1e-8));
+      sum.fill(0);
+      for (let r = 0; r < L.routes; r++) sum[destinationOf[r]!]! += phiAt(r) - pop - A[originOf[r]!]!;
+      let ssB = 0;
+      let nB = 0;
+      for (let a = 0; a < L.airports; a++) {
+        const precision = routesTo[a]! / varRoute + 1 / (sdB * sdB);
+        B[a] = sum[a]! / varRoute / precision;
+        if (routesTo[a]! > 0) {
+          ssB += B[a]! * B[a]! + 1 / precision;
+          nB++;
+        }
+      }
+      let ss = 0;
+      for (let r = 0; r < L.routes; r++) ss += (phiAt(r) - pop - A[originOf[r]!]! - B[destinationOf[r]!]!) ** 2;
+      varRoute = Math.max(ss / L.routes, 1e-8);
+      sdA = Math.sqrt(Math.max(ssA / Math.max(nA, 1), 1e-8));
+      sdB = Math.sqrt(Math.max(ssB / Math.max(nB, 1), 1e-8));
+    }
+    natural[L.pop + j] = pop;
+    natural[L.logSdRoute + j] = 0.5 * Math.log(varRoute);
+    natural[L.logSdOrigin + j] = Math.log(sdA);
+    natural[L.logSdDestination + j] = Math.log(sdB);
+    for (let a = 0; a < L.airports; a++) {
+      natural[L.origin + a * k + j] = A[a]! / sdA;
+      natural[L.destination + a * k + j] = B[a]! / sdB;
     }
   }
 }

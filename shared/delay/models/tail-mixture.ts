@@ -3,10 +3,12 @@
 // all pooled hierarchically (route toward origin and destination effects toward population
 // values) with optional calendar-month random effects.
 //
-// Centred parameterisation: each route's parameter vector phi_r ~ N(pop + A_origin + B_dest,
-// sigma_route), A ~ N(0, sigma_origin), B ~ N(0, sigma_dest). With tens of thousands of flights
-// per route the data pin phi_r and the centred form is the well-conditioned one for MAP; its
-// per-route conditional posterior is what the bundle's block Laplace approximation uses.
+// Each route's parameter vector phi_r ~ N(pop + A_origin + B_dest, sigma_route), with
+// A = sigma_origin * a, B = sigma_dest * b, a, b ~ N(0, 1), and month effects likewise
+// delta = tau * d. Routes are centred: thousands of flights pin each phi_r, and its
+// conditional posterior is what the bundle's block Laplace approximation uses. Airport and
+// month effects are non-centred: in the centred form the joint mode runs off to sd -> 0
+// (the density grows like sd^-n as all effects shrink together), which MAP must avoid.
 import type { Model } from '../../inference/model';
 import { digamma, logGamma } from './student-t';
 import type { PeriodWeightedData } from '../evaluation/weighted-delays';
@@ -14,14 +16,18 @@ import type { PeriodWeightedData } from '../evaluation/weighted-delays';
 /**
  * 'gumbel': [mu, log beta]. 'gumbel-gumbel': typical Gumbel [mu, log beta], disrupted Gumbel
  * [mu2, log beta2], [logit w]. 'gumbel-t': typical Gumbel, disrupted Student-t [m, log s],
- * [logit w], with a population degrees-of-freedom parameter.
+ * [logit w], with a population degrees-of-freedom parameter. 'gumbel-lomax': typical Gumbel,
+ * disrupted Lomax (Pareto type II) on delays >= 0 [log lambda, log alpha], [logit w]: a
+ * positive delay with a power-law tail S(x) = (1 + x/lambda)^-alpha whose tail index alpha
+ * is a route parameter like the others.
  */
-export type TailFamily = 'gumbel' | 'gumbel-gumbel' | 'gumbel-t';
+export type TailFamily = 'gumbel' | 'gumbel-gumbel' | 'gumbel-t' | 'gumbel-lomax';
 
 export const FAMILY_PARAMETERS: Readonly<Record<TailFamily, readonly string[]>> = {
   gumbel: ['mu', 'log_beta'],
   'gumbel-gumbel': ['mu', 'log_beta', 'mu_disrupted', 'log_beta_disrupted', 'logit_w'],
   'gumbel-t': ['mu', 'log_beta', 'm_disrupted', 'log_s_disrupted', 'logit_w'],
+  'gumbel-lomax': ['mu', 'log_beta', 'log_lambda_disrupted', 'log_alpha_disrupted', 'logit_w'],
 };
 
 /** Per-parameter starting values and (weak) population prior: N(init, priorSd). */
@@ -29,11 +35,24 @@ const FAMILY_INIT: Readonly<Record<TailFamily, readonly number[]>> = {
   gumbel: [-2, Math.log(15)],
   'gumbel-gumbel': [-6, Math.log(9), 15, Math.log(35), -1.3],
   'gumbel-t': [-6, Math.log(9), 25, Math.log(25), -1.3],
+  'gumbel-lomax': [-6, Math.log(9), Math.log(30), Math.log(2.5), -1.3],
 };
 const POP_PRIOR_SD: Readonly<Record<TailFamily, readonly number[]>> = {
   gumbel: [60, 2],
   'gumbel-gumbel': [60, 2, 100, 2, 3],
   'gumbel-t': [60, 2, 100, 2, 3],
+  'gumbel-lomax': [60, 2, 2, 2, 3],
+};
+/**
+ * Starting sds of route and airport effects: wide, so the first steps let routes move away
+ * from the population (a start that is too tight makes block updates shrink every route
+ * onto the population and the sds toward zero).
+ */
+const FAMILY_INIT_SD: Readonly<Record<TailFamily, readonly number[]>> = {
+  gumbel: [10, 0.5],
+  'gumbel-gumbel': [10, 0.5, 20, 0.7, 1],
+  'gumbel-t': [10, 0.5, 20, 0.7, 1],
+  'gumbel-lomax': [10, 0.5, 0.7, 0.5, 1],
 };
 /** log sd hyperparameters ~ N(LOG_SD_PRIOR_MEAN, LOG_SD_PRIOR_SD): weak, on the log scale. */
 const LOG_SD_PRIOR_MEAN = -1;
@@ -132,6 +151,20 @@ export function flightLogDensity(family: TailFamily, x: number, eta: Float64Arra
     l2 = -eta[3]! - z2 - ez2;
     d2a = (1 - ez2) / beta2;
     d2b = -1 + z2 * (1 - ez2);
+  } else if (family === 'gumbel-lomax') {
+    const lambda = Math.exp(eta[2]!);
+    const alpha = Math.exp(eta[3]!);
+    if (x < 0) {
+      l2 = -Infinity;
+      d2a = 0;
+      d2b = 0;
+    } else {
+      const v = x / lambda;
+      const lg = Math.log1p(v);
+      l2 = eta[3]! - eta[2]! - (alpha + 1) * lg;
+      d2a = -1 + ((alpha + 1) * v) / (1 + v);
+      d2b = 1 - alpha * lg;
+    }
   } else {
     const s = Math.exp(eta[3]!);
     const u = (x - eta[2]!) / s;
@@ -147,8 +180,8 @@ export function flightLogDensity(family: TailFamily, x: number, eta: Float64Arra
   const a1 = Math.log1p(-w) + l1;
   const a2 = Math.log(w) + l2;
   const top = Math.max(a1, a2);
-  const lp = top + Math.log(Math.exp(a1 - top) + Math.exp(a2 - top));
-  const r2 = Math.exp(a2 - lp);
+  const lp = a2 === -Infinity ? a1 : top + Math.log(Math.exp(a1 - top) + Math.exp(a2 - top));
+  const r2 = a2 === -Infinity ? 0 : Math.exp(a2 - lp);
   const r1 = 1 - r2;
   grad[0] = r1 * d1mu;
   grad[1] = r1 * d1b;
@@ -184,12 +217,14 @@ const FISHER_SCALE: Readonly<Record<TailFamily, readonly number[]>> = {
   gumbel: [1 / 15, 1.3],
   'gumbel-gumbel': [0.1, 1.2, 0.02, 0.45, 0.4],
   'gumbel-t': [0.1, 1.2, 0.015, 0.45, 0.4],
+  'gumbel-lomax': [0.1, 1.2, 0.3, 0.3, 0.4],
 };
 /** Rough 1 / sd_route per family parameter, for the scales of airport and population coordinates. */
 const POOL_SCALE: Readonly<Record<TailFamily, readonly number[]>> = {
   gumbel: [0.3, 5],
   'gumbel-gumbel': [0.3, 5, 0.1, 3, 2],
   'gumbel-t': [0.3, 5, 0.1, 3, 2],
+  'gumbel-lomax': [0.3, 5, 2, 2, 2],
 };
 
 /** Builds the model over weighted (route, month, minute, count) data. */
@@ -222,6 +257,7 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
 
   const eta = new Float64Array(k);
   const runGrad = new Float64Array(k);
+  const tau = new Float64Array(Math.max(m, 1));
   const nt = new Float64Array(3);
 
   /**
@@ -233,10 +269,12 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
    */
   function likelihood(theta: Float64Array, from: number, to: number, phiOverride: Float64Array | null, grad: Float64Array | null, gradPhi: Float64Array | null): number {
     const hasT = family === 'gumbel-t';
+    const hasLomax = family === 'gumbel-lomax';
     const df = hasT ? Math.exp(theta[layout.logDf]!) : 0;
     // Student-t constants, once per call: the log normaliser and the parts of d/d df that do not depend on x.
     const tConst = hasT ? logGamma((df + 1) / 2) - logGamma(df / 2) - 0.5 * Math.log(df * Math.PI) : 0;
     const tDfConst = hasT ? 0.5 * (digamma((df + 1) / 2) - digamma(df / 2) - 1 / df) : 0;
+    for (let slot = 0; slot < m; slot++) tau[slot] = Math.exp(theta[layout.logTau + slot]!);
     let total = 0;
     let gDf = 0;
     let i = from;
@@ -249,7 +287,7 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
       for (let j = 0; j < k; j++) {
         let v = phiOverride ? phiOverride[j]! : theta[base + j]!;
         const slot = effectSlot[j]!;
-        if (slot >= 0) v += theta[layout.delta + q * m + slot]!;
+        if (slot >= 0) v += tau[slot]! * theta[layout.delta + q * m + slot]!;
         eta[j] = v;
       }
       const mu = eta[0]!;
@@ -270,8 +308,11 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
         const logW = Math.log(w);
         const log1mW = Math.log1p(-w);
         const loc2 = eta[2]!;
-        const logScale2 = eta[3]!;
+        const logScale2 = hasLomax ? eta[2]! : eta[3]!;
         const invScale2 = Math.exp(-logScale2);
+        // Lomax: eta[2] is log lambda (the scale, read as logScale2), eta[3] log alpha.
+        const logAlpha = eta[3]!;
+        const alpha = Math.exp(logAlpha);
         for (let t = i; t < end; t++) {
           const n = data.count[t]!;
           const x = data.value[t]!;
@@ -282,7 +323,21 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
           let d2a: number;
           let d2b: number;
           let d2df = 0;
-          if (hasT) {
+          if (hasLomax) {
+            const v = x * invScale2;
+            const lg = Math.log1p(v);
+            a2 = logW + logAlpha - logScale2 - (alpha + 1) * lg;
+            if (x < 0 || !(a2 > -Infinity)) {
+              // The disrupted component has no mass below zero: the flight is all typical.
+              total += n * a1;
+              runGrad[0]! += n * (1 - ez) * invBeta;
+              runGrad[1]! += n * (-1 + z * (1 - ez));
+              runGrad[4]! += n * -w;
+              continue;
+            }
+            d2a = -1 + (alpha + 1) * (v / (1 + v));
+            d2b = 1 - alpha * lg;
+          } else if (hasT) {
             const u = (x - loc2) * invScale2;
             const u2 = u * u;
             const qd = df + u2;
@@ -325,7 +380,10 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
         if (!phiOverride) for (let j = 0; j < k; j++) grad[base + j]! += runGrad[j]!;
         for (let j = 0; j < k; j++) {
           const slot = effectSlot[j]!;
-          if (slot >= 0) grad[layout.delta + q * m + slot]! += runGrad[j]!;
+          if (slot < 0) continue;
+          const di = layout.delta + q * m + slot;
+          grad[di]! += tau[slot]! * runGrad[j]!;
+          grad[layout.logTau + slot]! += tau[slot]! * theta[di]! * runGrad[j]!;
         }
       }
       i = end;
@@ -346,34 +404,25 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
         const ai = layout.origin + o * k + j;
         const bi = layout.destination + d * k + j;
         const si = layout.logSdRoute + j;
-        lp += normalTerm(theta[pi]!, theta[layout.pop + j]! + theta[ai]! + theta[bi]!, theta[si]!, nt);
+        const sdA = Math.exp(theta[layout.logSdOrigin + j]!);
+        const sdB = Math.exp(theta[layout.logSdDestination + j]!);
+        lp += normalTerm(theta[pi]!, theta[layout.pop + j]! + sdA * theta[ai]! + sdB * theta[bi]!, theta[si]!, nt);
         grad[pi]! += nt[0]!;
         grad[layout.pop + j]! += nt[1]!;
-        grad[ai]! += nt[1]!;
-        grad[bi]! += nt[1]!;
+        grad[ai]! += nt[1]! * sdA;
+        grad[bi]! += nt[1]! * sdB;
+        grad[layout.logSdOrigin + j]! += nt[1]! * sdA * theta[ai]!;
+        grad[layout.logSdDestination + j]! += nt[1]! * sdB * theta[bi]!;
         grad[si]! += nt[2]!;
       }
     }
-    for (let a = 0; a < layout.airports; a++) {
-      for (let j = 0; j < k; j++) {
-        for (const [offset, sdOffset] of [
-          [layout.origin, layout.logSdOrigin],
-          [layout.destination, layout.logSdDestination],
-        ] as const) {
-          const xi = offset + a * k + j;
-          lp += normalTerm(theta[xi]!, 0, theta[sdOffset + j]!, nt);
-          grad[xi]! += nt[0]!;
-          grad[sdOffset + j]! += nt[2]!;
-        }
-      }
-    }
-    for (let q = 0; q < layout.periods; q++) {
-      for (let slot = 0; slot < m; slot++) {
-        const xi = layout.delta + q * m + slot;
-        lp += normalTerm(theta[xi]!, 0, theta[layout.logTau + slot]!, nt);
-        grad[xi]! += nt[0]!;
-        grad[layout.logTau + slot]! += nt[2]!;
-      }
+    // Non-centred airport and month effects: standard normal coordinates times their sd.
+    const standardStart = layout.origin;
+    const standardEnd = layout.pop;
+    for (let i = standardStart; i < standardEnd; i++) {
+      const x = theta[i]!;
+      lp -= HALF_LOG_2PI + 0.5 * x * x;
+      grad[i]! -= x;
     }
     const init = FAMILY_INIT[family];
     const popSd = POP_PRIOR_SD[family];
@@ -409,7 +458,10 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
     const o = input.originOf[route]!;
     const d = input.destinationOf[route]!;
     for (let j = 0; j < k; j++) {
-      const mean = theta[layout.pop + j]! + theta[layout.origin + o * k + j]! + theta[layout.destination + d * k + j]!;
+      const mean =
+        theta[layout.pop + j]! +
+        Math.exp(theta[layout.logSdOrigin + j]!) * theta[layout.origin + o * k + j]! +
+        Math.exp(theta[layout.logSdDestination + j]!) * theta[layout.destination + d * k + j]!;
       lp += normalTerm(phi[j]!, mean, theta[layout.logSdRoute + j]!, nt);
       grad[j]! += nt[0]!;
     }
@@ -422,9 +474,10 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
     for (let r = 0; r < layout.routes; r++) for (let j = 0; j < k; j++) theta[layout.phi + r * k + j] = init[j]!;
     for (let j = 0; j < k; j++) {
       theta[layout.pop + j] = init[j]!;
-      theta[layout.logSdRoute + j] = LOG_SD_PRIOR_MEAN;
-      theta[layout.logSdOrigin + j] = LOG_SD_PRIOR_MEAN;
-      theta[layout.logSdDestination + j] = LOG_SD_PRIOR_MEAN;
+      const logSd = Math.log(FAMILY_INIT_SD[family][j]!);
+      theta[layout.logSdRoute + j] = logSd;
+      theta[layout.logSdOrigin + j] = logSd;
+      theta[layout.logSdDestination + j] = logSd;
     }
     for (let slot = 0; slot < m; slot++) theta[layout.logTau + slot] = LOG_SD_PRIOR_MEAN;
     if (layout.logDf >= 0) theta[layout.logDf] = Math.log(3);
@@ -471,11 +524,11 @@ function coordinateScales(family: TailFamily, layout: TailMixtureLayout, input: 
   for (let r = 0; r < layout.routes; r++) for (let j = 0; j < k; j++) scale[layout.phi + r * k + j] = fisher[j]! * Math.sqrt(routeFlights[r]! + 1);
   for (let a = 0; a < layout.airports; a++) {
     for (let j = 0; j < k; j++) {
-      scale[layout.origin + a * k + j] = pool[j]! * Math.sqrt(routesFrom[a]! + 1);
-      scale[layout.destination + a * k + j] = pool[j]! * Math.sqrt(routesTo[a]! + 1);
+      scale[layout.origin + a * k + j] = 0.5 * Math.sqrt(routesFrom[a]! + 1);
+      scale[layout.destination + a * k + j] = 0.5 * Math.sqrt(routesTo[a]! + 1);
     }
   }
-  for (let q = 0; q < layout.periods; q++) layout.monthEffects.forEach((j, slot) => (scale[layout.delta + q * m + slot] = fisher[j]! * Math.sqrt(periodFlights[q]! + 1)));
+  for (let q = 0; q < layout.periods; q++) layout.monthEffects.forEach((j, slot) => (scale[layout.delta + q * m + slot] = 0.3 * fisher[j]! * Math.sqrt(periodFlights[q]! + 1)));
   for (let j = 0; j < k; j++) {
     scale[layout.pop + j] = pool[j]! * Math.sqrt(layout.routes + 1);
     scale[layout.logSdRoute + j] = Math.sqrt(2 * layout.routes + 1);

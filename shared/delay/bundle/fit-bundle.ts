@@ -1,0 +1,217 @@
+// Fits a tail-mixture route model to flights and turns the fit into a bundle.
+//
+// The mode comes from the inference engine's MAP (L-BFGS). Uncertainty is a block Laplace
+// approximation: each route's parameters get the full k x k covariance of their conditional
+// posterior at the mode (Hessian by central differences of the route's own gradient), the
+// airport effects their closed-form conditional Gaussian, the month-effect sd and the
+// degrees of freedom a one-dimensional Laplace approximation on the log scale.
+import { fitMap } from '../../inference/map';
+import type { CancelSignal, FitDiagnostics, FitOptions, FitProgress, FitResult } from '../../inference/fit-types';
+import { createRng } from '../../inference/rng';
+import { CLEANING_RULE, type FlightColumns } from '../evaluation/flight-columns';
+import { compressDelays, indexRoutes, type PeriodWeightedData, type RouteIndex } from '../evaluation/weighted-delays';
+import { createTailMixtureModel, FAMILY_PARAMETERS, type TailFamily, type TailMixtureData, type TailMixtureModel } from '../models/tail-mixture';
+import { routeLaplace, warmStart } from '../models/tail-mixture-blocks';
+import { BUNDLE_FORMAT, BUNDLE_VERSION, type PosteriorBundle } from './bundle-schema';
+
+export interface Candidate {
+  /** Short name used in tables, e.g. 'gumbel-t+month'. */
+  readonly name: string;
+  readonly family: TailFamily;
+  /** Family parameter indices that get a calendar-month random effect. */
+  readonly monthEffects: readonly number[];
+  readonly description: string;
+}
+
+/**
+ * Brueckner, Czerny & Gaggero (2021), "Airline mitigation of propagated delays via schedule
+ * buffers: Theory and empirics", Transportation Research Part E 150: schedules carry a flight
+ * buffer that recovers on average 6.1 minutes of a departure delay en route.
+ */
+export const EN_ROUTE_RECOVERY_MINUTES = 6.1;
+export const DEPARTURE_ASSUMPTION =
+  'Departure delays are not in the sample. A departure delay is derived as the route\'s arrival delay plus ' +
+  `${EN_ROUTE_RECOVERY_MINUTES} minutes: the mean en-route recovery that scheduled flight buffers provide ` +
+  '(Brueckner, Czerny & Gaggero 2021). The recovery is taken as a constant shift, the same for every flight and delay size.';
+export const DEPARTURE_REFERENCE =
+  'Brueckner, J. K., Czerny, A. I., Gaggero, A. A. (2021). Airline mitigation of propagated delays via schedule buffers: theory and empirics. Transportation Research Part E 150, 102333.';
+
+export interface FitBundleOptions {
+  readonly seed: number;
+  readonly maxIterations?: number;
+  readonly tolerance?: number;
+  readonly onProgress?: (p: FitProgress) => void;
+  readonly signal?: CancelSignal;
+  readonly drawCount?: number;
+  /** Block-coordinate sweeps before the fit (default 2; 0 starts from the prior means). */
+  readonly warmStartSweeps?: number;
+  /**
+   * Another algorithm than MAP to place the approximation (issue 7: `layline fit --method`).
+   * It gets the model's input too, e.g. to build minibatch gradients.
+   */
+  readonly algorithm?: {
+    readonly description: string;
+    fit(model: TailMixtureModel, options: FitOptions, input: TailMixtureData): Promise<FitResult>;
+  };
+  /** Everything in the bundle's metadata the fit itself does not know. */
+  readonly metadata: {
+    readonly id: string;
+    readonly title: string;
+    readonly source: string;
+    readonly license: string;
+    readonly dateRange: { readonly first: string; readonly last: string };
+    readonly createdAt: string;
+    readonly selection?: string;
+    readonly comparison?: PosteriorBundle['metadata']['comparison'];
+    readonly notes?: readonly string[];
+  };
+}
+
+export interface FittedBundle {
+  readonly bundle: PosteriorBundle;
+  readonly model: TailMixtureModel;
+  readonly theta: Float64Array;
+  readonly data: PeriodWeightedData;
+  readonly index: RouteIndex;
+  readonly fitMs: number;
+}
+
+/** 1-D Laplace sd of natural coordinate i of the log density at the mode (central second difference). */
+function coordinateLaplaceSd(model: TailMixtureModel, theta: Float64Array, i: number): number {
+  const grad = new Float64Array(model.dim);
+  const h = 1e-3;
+  const x = theta.slice();
+  x[i] = theta[i]! + h;
+  model.naturalLogDensityGrad(x, grad);
+  const gPlus = grad[i]!;
+  x[i] = theta[i]! - h;
+  model.naturalLogDensityGrad(x, grad);
+  const gMinus = grad[i]!;
+  const curvature = -(gPlus - gMinus) / (2 * h);
+  return curvature > 0 ? 1 / Math.sqrt(curvature) : 1;
+}
+
+const SIGNIFICANT = 7;
+function round(x: number): number {
+  return Number(x.toPrecision(SIGNIFICANT));
+}
+
+/** Fits the candidate to the masked flights and returns the bundle with its fit. */
+export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candidate: Candidate, options: FitBundleOptions): Promise<FittedBundle> {
+  const started = Date.now();
+  const index = indexRoutes(flights, mask);
+  const data = compressDelays(flights, index, mask, { minDelay: CLEANING_RULE.minDelayMinutes, maxDelay: CLEANING_RULE.maxDelayMinutesExclusive - 1 });
+  const codes = [...new Set(index.routes.flatMap((r) => [r.origin, r.destination]))].sort();
+  const codeIndex = new Map(codes.map((c, i) => [c, i]));
+  const originOf = Int32Array.from(index.routes, (r) => codeIndex.get(r.origin)!);
+  const destinationOf = Int32Array.from(index.routes, (r) => codeIndex.get(r.destination)!);
+  const input: TailMixtureData = { data, airportCount: codes.length, originOf, destinationOf };
+  const model = createTailMixtureModel(candidate.family, input, candidate.monthEffects);
+  const start = new Float64Array(model.dim);
+  model.initialPoint!(start);
+  const natural0 = model.toNatural(start);
+  const warmStarted = Date.now();
+  warmStart(model, natural0, originOf, destinationOf, options.warmStartSweeps ?? 2);
+  const warmStartMs = Date.now() - warmStarted;
+  const fitOptions: FitOptions = {
+    init: model.fromNatural(natural0),
+    rng: createRng(options.seed),
+    maxIterations: options.maxIterations ?? 3000,
+    tolerance: options.tolerance ?? 1e-3,
+    onProgress: options.onProgress,
+    signal: options.signal,
+  };
+  const fit = options.algorithm ? await options.algorithm.fit(model, fitOptions, input) : await fitMap(model, fitOptions);
+  const theta = model.toNatural(fit.mean);
+  const L = model.layout;
+  const k = L.k;
+  const m = L.monthEffects.length;
+
+  let maxRidge = 0;
+  const rows: number[][] = index.routes.map((route, r) => {
+    const { mean, chol, ridge } = routeLaplace(model, theta, r);
+    maxRidge = Math.max(maxRidge, ridge);
+    const row = [originOf[r]!, destinationOf[r]!, route.flights, ...Array.from(mean, round)];
+    for (let i = 0; i < k; i++) for (let j = 0; j <= i; j++) row.push(round(chol[i * k + j]!));
+    return row;
+  });
+
+  // Airport effects given the routes: prior N(0, sdA) times one N(phi_r - pop - B_d, sdR) per route.
+  const sdRoute = Array.from({ length: k }, (_, j) => Math.exp(theta[L.logSdRoute + j]!));
+  const sdOrigin = Array.from({ length: k }, (_, j) => Math.exp(theta[L.logSdOrigin + j]!));
+  const sdDestination = Array.from({ length: k }, (_, j) => Math.exp(theta[L.logSdDestination + j]!));
+  const routesFrom = new Float64Array(codes.length);
+  const routesTo = new Float64Array(codes.length);
+  for (let r = 0; r < index.routes.length; r++) {
+    routesFrom[originOf[r]!]! += 1;
+    routesTo[destinationOf[r]!]! += 1;
+  }
+  // Airport and month coordinates are non-centred (standard normal times their sd).
+  const effect = (offset: number, sds: readonly number[], a: number) => Array.from({ length: k }, (_, j) => round(sds[j]! * theta[offset + a * k + j]!));
+  const effectSd = (count: number, prior: readonly number[]) =>
+    Array.from({ length: k }, (_, j) => round(1 / Math.sqrt(1 / prior[j]! ** 2 + count / sdRoute[j]! ** 2)));
+
+  const monthLogSd = L.monthEffects.map((_, slot) => ({ mean: round(theta[L.logTau + slot]!), sd: round(coordinateLaplaceSd(model, theta, L.logTau + slot)) }));
+  const logDf = L.logDf >= 0 ? { mean: round(theta[L.logDf]!), sd: round(coordinateLaplaceSd(model, theta, L.logDf)) } : null;
+  const fitMs = Date.now() - started;
+
+  const diagnostics: FitDiagnostics = {
+    ...fit.diagnostics,
+    iterations: fit.iterations,
+    warmStartMs,
+    mapMs: fit.elapsedMs,
+    converged: fit.converged,
+    logPosterior: round(fit.objective),
+    triples: data.group.length,
+    dimension: model.dim,
+    maxLaplaceRidge: maxRidge,
+    ...(logDf ? { degreesOfFreedom: round(Math.exp(logDf.mean)) } : {}),
+  };
+  const bundle: PosteriorBundle = {
+    format: BUNDLE_FORMAT,
+    version: BUNDLE_VERSION,
+    id: options.metadata.id,
+    metadata: {
+      title: options.metadata.title,
+      source: options.metadata.source,
+      license: options.metadata.license,
+      dateRange: { ...options.metadata.dateRange },
+      flights: data.flights,
+      routes: index.routes.length,
+      airports: codes.length,
+      model: `${candidate.name}: ${candidate.description}`,
+      method: `${options.algorithm ? `${options.algorithm.description} for the centre` : 'MAP by L-BFGS (shared/inference/map.ts)'}, then a block Laplace approximation: full covariance per route, conditional Gaussians for airport effects, 1-D Laplace for log sd of month effects and log df`,
+      fitMs,
+      createdAt: options.metadata.createdAt,
+      cleaning: CLEANING_RULE.text,
+      diagnostics,
+      selection: options.metadata.selection ?? '',
+      comparison: options.metadata.comparison ? [...options.metadata.comparison] : [],
+      notes: options.metadata.notes ? [...options.metadata.notes] : [],
+    },
+    model: { family: candidate.family, parameters: [...FAMILY_PARAMETERS[candidate.family]], monthEffects: [...L.monthEffects] },
+    population: {
+      mean: Array.from({ length: k }, (_, j) => round(theta[L.pop + j]!)),
+      routeSd: sdRoute.map(round),
+      originSd: sdOrigin.map(round),
+      destinationSd: sdDestination.map(round),
+      monthLogSd,
+      logDf,
+    },
+    airports: {
+      codes,
+      originMean: codes.map((_, a) => effect(L.origin, sdOrigin, a)),
+      originSd: codes.map((_, a) => effectSd(routesFrom[a]!, sdOrigin)),
+      destinationMean: codes.map((_, a) => effect(L.destination, sdDestination, a)),
+      destinationSd: codes.map((_, a) => effectSd(routesTo[a]!, sdDestination)),
+    },
+    months: {
+      labels: m ? [...data.periodLabels] : [],
+      effects: m ? data.periodLabels.map((_, q) => Array.from({ length: m }, (_, slot) => round(Math.exp(theta[L.logTau + slot]!) * theta[L.delta + q * m + slot]!))) : [],
+    },
+    routes: { rows },
+    departure: { derived: true, offsetMinutes: EN_ROUTE_RECOVERY_MINUTES, assumption: DEPARTURE_ASSUMPTION, reference: DEPARTURE_REFERENCE },
+    draws: { count: options.drawCount ?? 200, seed: options.seed },
+  };
+  return { bundle, model, theta, data, index, fitMs };
+}
