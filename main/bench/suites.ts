@@ -4,5 +4,6 @@ import { inferenceSuite } from './suites/inference';
 import { intakeSuite } from './suites/intake';
 import { riskSuite } from './suites/risk';
 import { appSuite } from './suites/app';
+import { historySuite } from './suites/history';
 
-export const suites: readonly BenchSuite[] = [intakeSuite, riskSuite, inferenceSuite, appSuite];
+export const suites: readonly BenchSuite[] = [intakeSuite, riskSuite, inferenceSuite, appSuite, historySuite];
