@@ -3,7 +3,7 @@
 // against the simulation truth. Data generation and collapsing are outside the timings.
 import { createGroupedModel } from '../../../shared/delay/models/grouped';
 import type { HierarchicalDelayModel } from '../../../shared/delay/models/hierarchical-delay';
-import { groupHierarchyBlocks } from '../../../shared/inference/centred-view';
+import { groupHierarchyBlocks, observationsPerGroup } from '../../../shared/inference/centred-view';
 import type { FitMethod, FitResult } from '../../../shared/inference/fit-types';
 import { createRng } from '../../../shared/inference/rng';
 import { simulateGroupedDelays, type GumbelGroup } from '../../../shared/inference/simulation/grouped-delays';
@@ -55,7 +55,7 @@ export const inferenceSuite: BenchSuite = {
         models.set(c.totalDraws, model);
         log(`${c.totalDraws.toLocaleString('en')} delays collapse to ${model.data.group.length} weighted triples`);
       }
-      const blocks = groupHierarchyBlocks([model.layout.location, model.layout.logScale], model.groupCount);
+      const blocks = groupHierarchyBlocks([model.layout.location, model.layout.logScale], observationsPerGroup(model.data));
       const times: number[] = [];
       const cpuTimes: number[] = [];
       let last: FitResult | undefined;

@@ -9,7 +9,9 @@ import { CliFailure, UsageError } from '../io';
 import { readCsvTable } from '../fit/csv-columns';
 import { FIT_METHODS, isFitMethod, methodDiagnostics, runMethod, type MethodOptions } from '../fit/fit-methods';
 import { fitModels } from '../fit/fit-models';
+import { fitWarnings } from '../fit/fit-warnings';
 import { createProgressBar } from '../fit/progress-bar';
+import { isRouteHistoryFit, ROUTE_HISTORY_USAGE, runRouteHistoryFit } from '../fit-history/route-history-fit';
 
 const usage = [
   'Usage: layline fit <csv> --model NAME --method METHOD [options]',
@@ -36,6 +38,8 @@ const usage = [
   '  --json                print one JSON object instead of the table',
   '',
   'Estimates from historical data, not guarantees; airline rules and local regulations decide.',
+  '',
+  ROUTE_HISTORY_USAGE,
 ].join('\n');
 
 function wholeNumber(flag: string, text: string | undefined, min: number): number | undefined {
@@ -55,6 +59,8 @@ export const fitCommand: CliCommand = {
   summary: 'Fit a Bayesian delay model to a CSV file (MAP, ADVI, SVI or NUTS)',
   usage,
   run: async (argv, io) => {
+    // --model route (a delay-history file, several fits, a saved bundle) has its own path.
+    if (isRouteHistoryFit(argv)) return runRouteHistoryFit(argv, io);
     const modelFlags = Object.assign({}, ...fitModels.map((m) => m.flags)) as Record<string, { type: 'string' }>;
     const { values, positionals } = parseFlags(
       argv,
@@ -106,7 +112,16 @@ export const fitCommand: CliCommand = {
       bar.done();
     }
     const summaryRng = createRng(seed).split();
-    const diagnostics = { ...methodDiagnostics(prepared.model, result, summaryRng), converged: result.converged, observations: prepared.observations, model: adapter.name, seed };
+    const fitDiagnostics = methodDiagnostics(prepared.model, result, summaryRng);
+    const warnings = fitWarnings(method, result.converged, fitDiagnostics);
+    const diagnostics = {
+      ...fitDiagnostics,
+      converged: result.converged,
+      observations: prepared.observations,
+      model: adapter.name,
+      seed,
+      ...(warnings.length > 0 ? { warnings: warnings.join('; ') } : {}),
+    };
     const summary = prepared.summarise(result, summaryRng);
     const elapsedMs = Math.round(result.elapsedMs);
 
@@ -120,8 +135,12 @@ export const fitCommand: CliCommand = {
       summary.text.trimEnd(),
       '',
       'diagnostics:',
-      ...Object.entries(diagnostics).map(([k, v]) => `  ${k}: ${formatValue(v)}`),
+      ...Object.entries(diagnostics)
+        .filter(([k]) => k !== 'warnings')
+        .map(([k, v]) => `  ${k}: ${formatValue(v)}`),
       '',
+      ...warnings.map((w) => `warning: ${w}`),
+      ...(warnings.length > 0 ? [''] : []),
       'Posterior means ± sd. Estimates from historical data, not guarantees; airline rules and local regulations decide.',
     ];
     io.stdout(lines.join('\n') + '\n');

@@ -2,7 +2,7 @@
 // grouped model), read from a group column and a value column.
 import { createGroupedModel } from '../../../shared/delay/models/grouped';
 import type { HierarchicalDelayModel } from '../../../shared/delay/models/hierarchical-delay';
-import { groupHierarchyBlocks } from '../../../shared/inference/centred-view';
+import { groupHierarchyBlocks, observationsPerGroup } from '../../../shared/inference/centred-view';
 import type { FitResult } from '../../../shared/inference/fit-types';
 import type { Rng } from '../../../shared/inference/rng';
 import { collapseWeighted } from '../../../shared/inference/weighted-data';
@@ -82,7 +82,7 @@ async function prepare(input: FitInput, flags: FlagValues): Promise<PreparedFit>
   return {
     model,
     observations: n,
-    nutsCentredBlocks: groupHierarchyBlocks([layout.location, layout.logScale, layout.logitWeight], model.groupCount),
+    nutsCentredBlocks: groupHierarchyBlocks([layout.location, layout.logScale, layout.logitWeight], observationsPerGroup(model.data)),
     summarise(result: FitResult, rng: Rng) {
       const moments = groupPosteriorMoments(model, result, rng);
       const groups: GroupSummary[] = labels.map((label, g) => ({ group: label, ...moments[g]! }));

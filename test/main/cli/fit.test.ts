@@ -97,6 +97,15 @@ describe('layline fit', () => {
     expect(text).toContain('not guarantees');
   });
 
+  it('prints a warning under the table when the sampler has not converged', async () => {
+    const cli = io();
+    expect(await runCli(['fit', dataFile, '--model', 'grouped', '--method', 'nuts', '--chains', '2', '--warmup', '5', '--draws', '8'], cli)).toBe(0);
+    expect(cli.out()).toMatch(/^warning: bulk effective sample size \d+ is below 200/m);
+    const json = io();
+    await runCli(['fit', dataFile, '--model', 'grouped', '--method', 'nuts', '--chains', '2', '--warmup', '5', '--draws', '8', '--json'], json);
+    expect((JSON.parse(json.out()) as FitJson).diagnostics['warnings']).toMatch(/effective sample size/);
+  });
+
   it('is reproducible from --seed', async () => {
     const run = async (seed: string) => {
       const cli = io();

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { createGroupedModel } from '../../../shared/delay/models/grouped';
 import { gumbelSample } from '../../../shared/delay/gumbel';
-import { centredView, groupHierarchyBlocks } from '../../../shared/inference/centred-view';
+import { centredView, groupHierarchyBlocks, observationsPerGroup } from '../../../shared/inference/centred-view';
 import type { Model } from '../../../shared/inference/model';
 import { nuts } from '../../../shared/inference/nuts';
 import { nutsCentred } from '../../../shared/inference/nuts-centred';
@@ -67,11 +67,11 @@ function groupedData(groups: number, perGroup: number, seed: number) {
 describe('centredView', () => {
   it('has a gradient that matches central finite differences, on a normal hierarchy and the grouped delay model', () => {
     const normal = normalHierarchy([1, 3, -2], [50, 80, 20]);
-    const viewN = centredView(normal, [{ pop: 0, logSigma: 1, z: 2, count: 3 }]);
+    const viewN = centredView(normal, [{ pop: 0, logSigma: 1, z: [2, 3, 4] }]);
     finiteDifferenceCheck(viewN.model, Float64Array.from([0.5, 0.7, 1.2, 2.5, -1.5]), 1e-5);
     const grouped = createGroupedModel(groupedData(4, 50, 1));
-    const blocks = groupHierarchyBlocks([grouped.layout.location, grouped.layout.logScale], grouped.groupCount);
-    expect(blocks.length).toBe(2);
+    const blocks = groupHierarchyBlocks([grouped.layout.location, grouped.layout.logScale], observationsPerGroup(grouped.data));
+    expect(blocks.map((b) => b.z.length)).toEqual([4, 4]);
     const view = centredView(grouped, blocks);
     const start = new Float64Array(grouped.dim);
     view.model.initialPoint!(start);
@@ -80,7 +80,7 @@ describe('centredView', () => {
 
   it('maps coordinates both ways and keeps the density up to the Jacobian -G log sigma', () => {
     const model = normalHierarchy([1, 3, -2], [50, 80, 20]);
-    const view = centredView(model, [{ pop: 0, logSigma: 1, z: 2, count: 3 }]);
+    const view = centredView(model, [{ pop: 0, logSigma: 1, z: [2, 3, 4] }]);
     const original = Float64Array.from([0.4, 0.3, 1, -0.5, 2]);
     const centred = new Float64Array(5);
     view.toCentred(original, centred);
@@ -94,15 +94,16 @@ describe('centredView', () => {
 
   it('rejects overlapping or out-of-range blocks', () => {
     const model = normalHierarchy([1, 2], [5, 5]);
-    expect(() => centredView(model, [{ pop: 0, logSigma: 0, z: 2, count: 2 }])).toThrow(RangeError);
-    expect(() => centredView(model, [{ pop: 0, logSigma: 1, z: 2, count: 3 }])).toThrow(RangeError);
+    expect(() => centredView(model, [{ pop: 0, logSigma: 0, z: [2, 3] }])).toThrow(RangeError);
+    expect(() => centredView(model, [{ pop: 0, logSigma: 1, z: [2, 3, 4] }])).toThrow(RangeError);
+    expect(() => centredView(model, [{ pop: 0, logSigma: 1, z: [] }])).toThrow(RangeError);
   });
 });
 
 describe('nutsCentred', () => {
   it('samples the same posterior as plain NUTS, reported in the original coordinates', async () => {
     const model = normalHierarchy([1, 3, -2, 0.5], [40, 60, 30, 50]);
-    const blocks = [{ pop: 0, logSigma: 1, z: 2, count: 4 }];
+    const blocks = [{ pop: 0, logSigma: 1, z: [2, 3, 4, 5] }];
     const options = { chains: 2, warmup: 500, draws: 1000 };
     const direct = await nuts(model, { ...options, rng: createRng(1), targetAccept: 0.95 });
     const centred = await nutsCentred(model, blocks, { ...options, rng: createRng(2) });
@@ -120,5 +121,19 @@ describe('nutsCentred', () => {
     // Centred sampling is the efficient one here: larger steps, fewer gradients.
     expect(centred.chainStats[0]!.stepSize).toBeGreaterThan(direct.chainStats[0]!.stepSize);
     expect(centred.draws(createRng(3), 2000)).toEqual(centred.samples);
+  });
+});
+
+describe('groupHierarchyBlocks', () => {
+  it('centres every group when each has enough observations, and none otherwise', () => {
+    const model = createGroupedModel(collapseWeighted([0, 0, 1, ...Array.from({ length: 30 }, () => 2)], [1, 2, 3, ...Array.from({ length: 30 }, (_, i) => i)], 3));
+    const n = observationsPerGroup(model.data);
+    expect(Array.from(n)).toEqual([2, 1, 30]);
+    expect(groupHierarchyBlocks([model.layout.location, model.layout.logScale], n)).toEqual([]);
+    const { location, logScale } = model.layout;
+    expect(groupHierarchyBlocks([location, logScale], Float64Array.from([20, 25, 30]))).toEqual([
+      { pop: location.pop, logSigma: location.logSigmaGroup, z: [location.zGroup, location.zGroup + 1, location.zGroup + 2] },
+      { pop: logScale.pop, logSigma: logScale.logSigmaGroup, z: [logScale.zGroup, logScale.zGroup + 1, logScale.zGroup + 2] },
+    ]);
   });
 });

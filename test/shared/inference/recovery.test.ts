@@ -1,7 +1,7 @@
 // Recovery of known group parameters by every algorithm, on the same data (STYLE.md section 5:
 // one matrix over algorithms). The reference is the simulation truth itself.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { groupHierarchyBlocks } from '../../../shared/inference/centred-view';
+import { groupHierarchyBlocks, observationsPerGroup } from '../../../shared/inference/centred-view';
 import { createGroupedModel } from '../../../shared/delay/models/grouped';
 import type { HierarchicalDelayModel } from '../../../shared/delay/models/hierarchical-delay';
 import type { FitMethod, FitResult } from '../../../shared/inference/fit-types';
@@ -40,7 +40,7 @@ async function fitWith(method: FitMethod) {
   const cached = fits.get(method);
   if (cached) return cached;
   const { layout } = model;
-  const blocks = groupHierarchyBlocks([layout.location, layout.logScale], model.groupCount);
+  const blocks = groupHierarchyBlocks([layout.location, layout.logScale], observationsPerGroup(model.data));
   // NUTS: two chains of 500 + 500 keep the unit suite fast; the bench runs 1,000 + 1,000.
   const result = await runMethod(method, model, { rng: createRng(77), chains: 2, warmup: 500, draws: 500 }, blocks);
   const entry = { result, groups: groupPosteriorMoments(model, result, createRng(78)) };
