@@ -3,7 +3,8 @@
 //
 // The posteriors are synthetic (typical-plus-disrupted Gumbel mixtures with parameter
 // uncertainty, the shape of the bundled models) so the figures do not depend on a fit.
-import { gumbelCdf, gumbelPdf, gumbelSample, gumbelSurvival } from '../../../shared/delay/gumbel';
+import { gumbelDistribution } from '../../../shared/delay/gumbel';
+import { mixtureDistribution } from '../../../shared/delay/mixture';
 import type { DelayDistribution, DelayKind, PosteriorSource, RoutePosterior } from '../../../shared/delay/predictive';
 import { createRng } from '../../../shared/inference/rng';
 import type { Leg, ParsedTrips, Trip } from '../../../shared/itinerary/types';
@@ -16,12 +17,7 @@ import { timeMedian, type BenchSuite } from '../suite';
 const DRAWS = 100;
 
 function mixtureDelay(mu: number, beta: number, w: number, mu2: number, beta2: number): DelayDistribution {
-  return {
-    cdf: (x) => (1 - w) * gumbelCdf(x, mu, beta) + w * gumbelCdf(x, mu2, beta2),
-    survival: (x) => (1 - w) * gumbelSurvival(x, mu, beta) + w * gumbelSurvival(x, mu2, beta2),
-    pdf: (x) => (1 - w) * gumbelPdf(x, mu, beta) + w * gumbelPdf(x, mu2, beta2),
-    sample: (rng) => (rng.uniform() < w ? gumbelSample(rng, mu2, beta2) : gumbelSample(rng, mu, beta)),
-  };
+  return mixtureDistribution([gumbelDistribution(mu, beta), gumbelDistribution(mu2, beta2)], [1 - w, w]);
 }
 
 /** Synthetic posteriors: per route, draws of a 5-parameter Gumbel mixture. */

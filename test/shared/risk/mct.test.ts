@@ -3,7 +3,7 @@ import { connectionType, DEFAULT_MCT_MINUTES, resolveMct } from '../../../shared
 import type { MctRule } from '../../../shared/risk/types';
 
 describe('connectionType', () => {
-  it.each([
+  it.each<[readonly [string, string, string, string], string]>([
     // [inbound origin, arrival airport, departure airport, outbound destination] countries
     [['US', 'US', 'US', 'US'], 'domestic'],
     [['GB', 'US', 'US', 'US'], 'international-arrival'],
@@ -11,7 +11,7 @@ describe('connectionType', () => {
     [['DE', 'GB', 'GB', 'US'], 'international'],
     [['GB', 'NL', 'NL', 'JP'], 'international'],
     [['US', 'US', 'US', 'GB'], 'international-departure'],
-  ] as const)('classifies %j as %s', (countries, expected) => {
+  ])('classifies %j as %s', (countries, expected) => {
     expect(connectionType(...countries)).toBe(expected);
   });
 
