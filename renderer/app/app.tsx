@@ -40,9 +40,10 @@ function message(err: unknown): string {
   return err instanceof Error ? err.message : String(err);
 }
 
+/** Sets the page's palette; 'system' follows the OS (in Electron, nativeTheme drives the same media query). */
 function applyTheme(theme: ThemeChoice): void {
-  if (theme === 'system') delete document.documentElement.dataset.theme;
-  else document.documentElement.dataset.theme = theme;
+  const dark = theme === 'dark' || (theme === 'system' && matchMedia('(prefers-color-scheme: dark)').matches);
+  document.documentElement.dataset.theme = dark ? 'dark' : 'light';
 }
 
 export function App({ api }: { api: LaylineApi }) {
@@ -99,7 +100,10 @@ export function App({ api }: { api: LaylineApi }) {
     setColors(readChartColors(document.documentElement));
     if (desktop) api.setTheme(content.theme).catch(() => undefined);
     const media = matchMedia('(prefers-color-scheme: dark)');
-    const onChange = () => setColors(readChartColors(document.documentElement));
+    const onChange = () => {
+      applyTheme(content.theme);
+      setColors(readChartColors(document.documentElement));
+    };
     media.addEventListener('change', onChange);
     return () => media.removeEventListener('change', onChange);
   }, [api, content.theme, desktop]);

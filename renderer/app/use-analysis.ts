@@ -14,8 +14,16 @@ export interface AnalysisState {
   readonly error: string | null;
 }
 
+interface Answer {
+  readonly analysis: Analysis | null;
+  readonly error: string | null;
+  /** The inputs this answer is for; busy is derived by comparing them with the current ones. */
+  readonly text: string | null;
+  readonly settings: AnalysisSettings | null;
+}
+
 export function useAnalysis(api: LaylineApi, text: string, settings: AnalysisSettings): AnalysisState & { skipNextDebounce: () => void } {
-  const [state, setState] = useState<AnalysisState>({ analysis: null, busy: true, error: null });
+  const [answer, setAnswer] = useState<Answer>({ analysis: null, error: null, text: null, settings: null });
   const latest = useRef(0);
   const immediate = useRef(true);
   const lastSettings = useRef(settings);
@@ -24,18 +32,17 @@ export function useAnalysis(api: LaylineApi, text: string, settings: AnalysisSet
     const id = ++latest.current;
     const settingsChanged = lastSettings.current !== settings;
     lastSettings.current = settings;
-    setState((s) => (s.busy ? s : { ...s, busy: true }));
     const run = () => {
       api.analyzeTrips(text, settings).then(
         (analysis) => {
           if (id !== latest.current) return;
           // Lets the benchmark split engine time from rendering time.
           performance.mark('layline:analysis-arrived');
-          setState({ analysis, busy: false, error: null });
+          setAnswer({ analysis, error: null, text, settings });
         },
         (err: unknown) => {
           if (id !== latest.current) return;
-          setState((s) => ({ ...s, busy: false, error: err instanceof Error ? err.message : String(err) }));
+          setAnswer((a) => ({ ...a, error: err instanceof Error ? err.message : String(err), text, settings }));
         },
       );
     };
@@ -48,5 +55,7 @@ export function useAnalysis(api: LaylineApi, text: string, settings: AnalysisSet
     return () => clearTimeout(timer);
   }, [api, text, settings]);
 
-  return { ...state, skipNextDebounce: () => (immediate.current = true) };
+  // Derived while rendering, so the screen never shows an old answer as current.
+  const busy = answer.text !== text || answer.settings !== settings;
+  return { analysis: answer.analysis, error: answer.error, busy, skipNextDebounce: () => (immediate.current = true) };
 }

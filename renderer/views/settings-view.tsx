@@ -4,6 +4,8 @@ import { useEffect, useState } from 'preact/hooks';
 import * as v from 'valibot';
 import type { BundleView } from '../../shared/api/analysis-schema';
 import { MCT_CONNECTION_TYPES, MctOverrideSchema, normaliseMctOverrides, THEMES, type AnalysisSettings, type MctOverride, type ThemeChoice } from '../../shared/workspace/settings';
+import { DEFAULT_MCT_MINUTES } from '../../shared/risk/mct';
+import { NumberField } from './number-field';
 import { TargetInput } from './target-input';
 
 interface DraftRow {
@@ -39,30 +41,11 @@ export interface SettingsViewProps {
 }
 
 function MinutesField({ label, value, max, onValue }: { label: string; value: number; max: number; onValue: (n: number) => void }) {
-  const [text, setText] = useState(String(value));
-  useEffect(() => setText(String(value)), [value]);
-  const n = Number(text);
-  const valid = text.trim() !== '' && Number.isInteger(n) && n >= 0 && n <= max;
-  return (
-    <label class="field">
-      {label}
-      <input
-        type="number"
-        min={0}
-        max={max}
-        step={5}
-        value={text}
-        aria-invalid={!valid}
-        onInput={(e) => {
-          const t = (e.currentTarget as HTMLInputElement).value;
-          setText(t);
-          const m = Number(t);
-          if (t.trim() !== '' && Number.isInteger(m) && m >= 0 && m <= max) onValue(m);
-        }}
-      />
-      {!valid && <span class="field-error">Whole minutes from 0 to {max}.</span>}
-    </label>
-  );
+  const parse = (t: string) => {
+    const m = Number(t);
+    return t.trim() !== '' && Number.isInteger(m) && m >= 0 && m <= max ? m : null;
+  };
+  return <NumberField label={label} value={value} format={String} parse={parse} onValue={onValue} rule={`Whole minutes from 0 to ${max}.`} min={0} max={max} step={5} />;
 }
 
 export function SettingsView({ settings, theme, bundle, bundleError, onSettings, onTheme }: SettingsViewProps) {
@@ -84,7 +67,7 @@ export function SettingsView({ settings, theme, bundle, bundleError, onSettings,
       <fieldset>
         <legend>Minimum connecting times</legend>
         <p class="hint">
-          Defaults are common practice, not published values: 45 minutes domestic, 60 international transit, 90 when arriving from abroad into a country with entry formalities. IATA Resolution 765 defines the minimum
+          Defaults are common practice, not published values: {MCT_CONNECTION_TYPES.map((t) => `${DEFAULT_MCT_MINUTES[t]} minutes ${t.replace('-', ' ')}`).join(', ')}. IATA Resolution 765 defines the minimum
           connecting time, but airports and airlines set the actual values; enter the ones you know here.
         </p>
         <table class="plain mct-table" aria-label="MCT overrides">

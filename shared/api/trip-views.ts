@@ -1,7 +1,7 @@
 // Turns the parser's trips and the risk engine's scores into the views the screens show.
 //
 // Kept apart from the handlers so the mapping is one pure function of its inputs.
-import type { Leg, ParsedTrips, Trip } from '../itinerary/types';
+import type { Connection, Leg, ParsedTrips, Trip } from '../itinerary/types';
 import type { RouteEvidence, ScoredConnection, ScoredTrip, ScoredTrips } from '../risk/types';
 import type { ConnectionView, GroupView, LegView, RouteData, TripView } from './analysis-schema';
 
@@ -62,14 +62,14 @@ function unscoredReason(c: ScoredConnection): string | null {
   return 'Not scored.';
 }
 
+/** The fields a connection has whether or not it was scored. */
+function connectionBase(c: Connection | ScoredConnection, index: number) {
+  return { index, airport: c.airport, departAirport: c.departAirport, inboundLeg: c.inboundLeg, layoverMinutes: c.layoverMinutes, flags: [...c.flags] };
+}
+
 function scoredConnectionView(c: ScoredConnection, index: number): ConnectionView {
   return {
-    index,
-    airport: c.airport,
-    departAirport: c.departAirport,
-    inboundLeg: c.inboundLeg,
-    layoverMinutes: c.layoverMinutes,
-    flags: [...c.flags],
+    ...connectionBase(c, index),
     mctMinutes: c.mctMinutes,
     pMake: c.pMake,
     pMakeLo: c.pMakeInterval?.[0] ?? null,
@@ -84,16 +84,33 @@ function scoredConnectionView(c: ScoredConnection, index: number): ConnectionVie
   };
 }
 
+function unscoredConnectionView(c: Connection, index: number, reason: string): ConnectionView {
+  return {
+    ...connectionBase(c, index),
+    mctMinutes: null,
+    pMake: null,
+    pMakeLo: null,
+    pMakeHi: null,
+    minLayoverMinutes: null,
+    marginMinutes: null,
+    data: [],
+    unscoredReason: reason,
+    connectionType: null,
+    mctSource: null,
+    warnings: [],
+  };
+}
+
+/** The fields a trip has whether or not it was scored. */
+function tripBase(t: Trip | ScoredTrip) {
+  return { id: t.id, traveler: t.traveler, trip: t.trip, option: t.option, legs: t.legs.map(toLegView), deadlineLocal: t.deadlineLocal };
+}
+
 /** The view of a trip the engine scored. */
 export function scoredTripView(t: ScoredTrip): TripView {
   return {
-    id: t.id,
-    traveler: t.traveler,
-    trip: t.trip,
-    option: t.option,
-    legs: t.legs.map(toLegView),
+    ...tripBase(t),
     connections: t.connections.map(scoredConnectionView),
-    deadlineLocal: t.deadlineLocal,
     totalTravelMinutes: t.travelMinutes,
     pAllConnections: t.pAllConnections,
     pAllLo: t.pAllConnectionsInterval[0],
@@ -113,31 +130,8 @@ export function scoredTripView(t: ScoredTrip): TripView {
 /** The view of a trip that was read but not scored (no bundle available): numbers are null. */
 export function unscoredTripView(t: Trip, optionCount: number, reason: string): TripView {
   return {
-    id: t.id,
-    traveler: t.traveler,
-    trip: t.trip,
-    option: t.option,
-    legs: t.legs.map(toLegView),
-    connections: t.connections.map((c, index) => ({
-      index,
-      airport: c.airport,
-      departAirport: c.departAirport,
-      inboundLeg: c.inboundLeg,
-      layoverMinutes: c.layoverMinutes,
-      flags: [...c.flags],
-      mctMinutes: null,
-      pMake: null,
-      pMakeLo: null,
-      pMakeHi: null,
-      minLayoverMinutes: null,
-      marginMinutes: null,
-      data: [],
-      unscoredReason: reason,
-      connectionType: null,
-      mctSource: null,
-      warnings: [],
-    })),
-    deadlineLocal: t.deadlineLocal,
+    ...tripBase(t),
+    connections: t.connections.map((c, index) => unscoredConnectionView(c, index, reason)),
     totalTravelMinutes: travelMinutesOf(t),
     pAllConnections: null,
     pAllLo: null,

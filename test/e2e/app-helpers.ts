@@ -1,6 +1,7 @@
 // Steps the app's end-to-end tests share: open the page, put trips in, wait for scores,
 // and check that a chart's canvas has something drawn on it.
 import type { Page } from 'playwright-core';
+import { pasteIntoIntake, waitForScores } from '../../main/bench/page-actions';
 import type { Harness } from './harness';
 
 /** Opens the app on a fresh profile and waits for the engine's first answer. */
@@ -13,12 +14,7 @@ export async function openApp(harness: Harness): Promise<Page> {
 }
 
 /** Waits until no analysis is pending. */
-export async function waitForEngine(page: Page): Promise<void> {
-  await page.waitForFunction(() => {
-    const state = document.querySelector('[data-testid="engine-state"]')?.textContent ?? '';
-    return state.startsWith('Scored in');
-  });
-}
+export const waitForEngine = waitForScores;
 
 /** Replaces the trips text as a paste would, and waits for the scores. */
 export async function pasteTrips(page: Page, text: string): Promise<void> {
@@ -27,12 +23,7 @@ export async function pasteTrips(page: Page, text: string): Promise<void> {
   await area.focus();
   await page.keyboard.press('ControlOrMeta+A');
   await page.keyboard.press('Delete');
-  await page.evaluate((t) => {
-    const el = document.querySelector<HTMLTextAreaElement>('textarea[aria-label="Trips text"]');
-    if (!el) throw new Error('no trips textarea');
-    el.value = t;
-    el.dispatchEvent(new InputEvent('input', { bubbles: true, inputType: 'insertFromPaste', data: t }));
-  }, text);
+  await pasteIntoIntake(page, text);
   await waitForEngine(page);
 }
 

@@ -62,3 +62,43 @@ describe('intake', () => {
     await expect(area.inputValue()).resolves.toContain('UA 1137');
   });
 });
+
+describe('intake from files', () => {
+  const csv = 'traveler,trip,flight,from,depart,to,arrive\nAda Quill,Offsite,UA 1184,DFW,2026-03-08 15:10,ORD,17:35\nAda Quill,Offsite,UA 1137,ORD,2026-03-08 18:20,BOS,21:40\n';
+
+  it('reads a CSV file dropped on the text area', async () => {
+    const page = await openApp(harness);
+    await page.getByRole('tab', { name: /^Intake/ }).click();
+    await page.evaluate((text) => {
+      const transfer = new DataTransfer();
+      transfer.items.add(new File([text], 'offsite.csv', { type: 'text/csv' }));
+      document.querySelector('.editor')?.dispatchEvent(new DragEvent('drop', { bubbles: true, cancelable: true, dataTransfer: transfer }));
+    }, csv);
+    await page.getByRole('status').filter({ hasText: 'Imported offsite.csv' }).waitFor();
+    await page.getByTestId('intake-summary').filter({ hasText: /^1 trips, 2 legs read \(csv\)/ }).waitFor();
+    await expect(page.getByRole('textbox', { name: 'Trips text' }).inputValue()).resolves.toBe(csv);
+  });
+
+  it('imports an iCalendar file through the import dialog', async () => {
+    const page = await openApp(harness);
+    await page.getByRole('tab', { name: /^Intake/ }).click();
+    // RFC 5545 VEVENTs with TZID start and end times; summary carries the flight and airports.
+    const ics = [
+      'BEGIN:VCALENDAR',
+      'VERSION:2.0',
+      'PRODID:-//Invented//Layline e2e//EN',
+      'BEGIN:VEVENT',
+      'UID:leg1@example.invalid',
+      'DTSTAMP:20260201T000000Z',
+      'SUMMARY:UA 1184 DFW to ORD',
+      'DTSTART;TZID=America/Chicago:20260308T151000',
+      'DTEND;TZID=America/Chicago:20260308T173500',
+      'END:VEVENT',
+      'END:VCALENDAR',
+      '',
+    ].join('\r\n');
+    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.getByRole('button', { name: 'Import file…' }).click()]);
+    await chooser.setFiles({ name: 'trip.ics', mimeType: 'text/calendar', buffer: Buffer.from(ics) });
+    await page.getByTestId('intake-summary').filter({ hasText: /^1 trips, 1 legs read \(ics\)/ }).waitFor();
+  });
+});

@@ -6,6 +6,7 @@ import path from 'node:path';
 import { chromium, type Page } from 'playwright-core';
 import { DEMO_TRIPS_TEXT } from '../../../shared/demo/demo-workspace';
 import { startStaticServer } from '../../web/static-server';
+import { pasteIntoIntake, waitForScores } from '../page-actions';
 import type { BenchRow, BenchSuite } from '../suite';
 
 const TRIPS = 500;
@@ -60,13 +61,8 @@ function pasteAndTime(page: Page, text: string, trips: number): Promise<{ totalM
 
 async function toIntake(page: Page, text: string): Promise<void> {
   await page.locator('#tab-intake').click();
-  await page.evaluate((t) => {
-    const area = document.querySelector<HTMLTextAreaElement>('textarea[aria-label="Trips text"]');
-    if (!area) throw new Error('no trips textarea');
-    area.value = t;
-    area.dispatchEvent(new InputEvent('input', { bubbles: true, inputType: 'insertFromPaste', data: t }));
-  }, text);
-  await page.waitForFunction(() => (document.querySelector('[data-testid="engine-state"]')?.textContent ?? '').startsWith('Scored in'));
+  await pasteIntoIntake(page, text);
+  await waitForScores(page);
 }
 
 /** Keystroke-to-frame delays (ms) while a 500-trip analysis runs in the worker. */
@@ -80,12 +76,7 @@ async function typingDelays(page: Page, text: string): Promise<number[]> {
       requestAnimationFrame(() => w.laylineDelays.push(performance.now() - at));
     });
   });
-  await page.evaluate((t) => {
-    const area = document.querySelector<HTMLTextAreaElement>('textarea[aria-label="Trips text"]');
-    if (!area) throw new Error('no trips textarea');
-    area.value = t;
-    area.dispatchEvent(new InputEvent('input', { bubbles: true, inputType: 'insertFromPaste', data: t }));
-  }, text);
+  await pasteIntoIntake(page, text);
   await page.locator('textarea').press('End');
   await page.keyboard.type('Typing while the engine scores 500 trips', { delay: 25 });
   return page.evaluate(() => (window as unknown as { laylineDelays: number[] }).laylineDelays);
