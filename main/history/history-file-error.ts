@@ -1,12 +1,6 @@
-// The one error type for a delay-history file that cannot be read: wrong columns, binary
-// content, an over-long line, an unreadable or empty file. Its message is meant for the user.
-
-export class HistoryFileError extends Error {
-  constructor(message: string) {
-    super(message);
-    this.name = 'HistoryFileError';
-  }
-}
+// Node-side helpers around HistoryFileError (defined in shared/history so the pure parser can
+// throw it): the abort check the file readers make between chunks.
+export { HistoryFileError } from '../../shared/history/history-file-error';
 
 /** Throws the signal's reason (an AbortError by default) once it has been aborted. */
 export function throwIfAborted(signal: AbortSignal | undefined): void {

@@ -2,7 +2,8 @@
 // text. Also previews a file's columns and first rows for a column-mapping step.
 import { open } from 'node:fs/promises';
 import { detectHistoryColumns, type ColumnDetection } from '../../shared/history/columns';
-import { readCsvHistory, sniffBinary, detectDelimiter, splitCsvLine, type HistoryReadOptions, type HistoryReadResult } from './csv-history-reader';
+import { detectDelimiter, sniffBinary, splitCsvLine } from '../../shared/history/csv-history-parser';
+import { readCsvHistory, type HistoryReadOptions, type HistoryReadResult } from './csv-history-reader';
 import { HistoryFileError } from './history-file-error';
 import { parquetHeader, readParquetHistory } from './parquet-history-reader';
 
