@@ -182,7 +182,7 @@ export class DrawTable {
   private guide: Int32Array | undefined;
 }
 
-const GUIDE_BUCKETS = 64;
+const GUIDE_BUCKETS = 256;
 
 // guide[b] = the first index i with cdf[i] >= b / GUIDE_BUCKETS (n - 1 when none), b = 0..GUIDE_BUCKETS.
 function buildGuide(cdf: Float64Array): Int32Array {
