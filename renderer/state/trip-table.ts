@@ -103,6 +103,9 @@ export const FLAG_WORDS: Record<string, string> = {
   'negative-layover': 'next flight leaves before this one lands',
   'dst-change-during-trip': 'clocks change during the trip',
   stopover: 'stopover of more than 24 hours',
+  'below-target': 'short of the target',
+  'target-unreachable': 'no layover within reach meets the target',
+  'pooled-route': 'estimate pooled from similar routes',
 };
 
 export function flagWords(flag: string): string {
