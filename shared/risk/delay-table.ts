@@ -222,9 +222,10 @@ function findFirst(holds: (x: number) => boolean, a0: number, b0: number): numbe
 function invertByBisection(dist: DelayDistribution, u: number, a0: number, b0: number): number {
   let a = a0;
   let b = b0;
-  // Widen until the bracket holds the quantile, then halve it to well under a second.
-  while (dist.cdf(a) > u && a > -1e6) a -= 2880;
-  while (dist.cdf(b) < u && b < 1e6) b += 2880;
+  // Widen until the bracket holds the quantile (at most to the search bounds: a quantile beyond
+  // five days late is returned as five days), then halve it to well under a second.
+  while (dist.cdf(a) > u && a > SEARCH_LO) a = Math.max(SEARCH_LO, a - 2880);
+  while (dist.cdf(b) < u && b < SEARCH_HI) b = Math.min(SEARCH_HI, b + 2880);
   for (let i = 0; i < 60 && b - a > 1e-3; i++) {
     const mid = (a + b) / 2;
     if (dist.cdf(mid) < u) a = mid;

@@ -54,6 +54,13 @@ export interface TripSimulation {
   readonly pByDeadline: number | null;
 }
 
+/**
+ * Longest delay a simulation uses (minutes). A heavy-tailed posterior (e.g. a Lomax component)
+ * can draw delays of weeks, and its mean may not even exist; a flight two days late is in
+ * practice cancelled and its travellers rebooked, so longer draws count as two days.
+ */
+export const MAX_SIMULATED_DELAY_MINUTES = 2880;
+
 /** Simulations per block (see simulateTrips). */
 const SIMULATION_BLOCK = 256;
 
@@ -115,11 +122,11 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
       const row = f * block;
       if (flight.arrival) {
         const rng = arrivalStreams[f]!;
-        for (let j = 0; j < size; j++) a[row + j] = flight.arrival.table((i0 + j) % draws).inverse(rng.uniform());
+        for (let j = 0; j < size; j++) a[row + j] = Math.min(MAX_SIMULATED_DELAY_MINUTES, flight.arrival.table((i0 + j) % draws).inverse(rng.uniform()));
       }
       if (flight.departure) {
         const rng = departureStreams[f]!;
-        for (let j = 0; j < size; j++) d[row + j] = flight.departure.table((i0 + j) % draws).inverse(rng.uniform());
+        for (let j = 0; j < size; j++) d[row + j] = Math.min(MAX_SIMULATED_DELAY_MINUTES, flight.departure.table((i0 + j) % draws).inverse(rng.uniform()));
       }
     }
     for (let k = 0; k < trips.length; k++) {
