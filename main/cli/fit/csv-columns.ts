@@ -8,24 +8,35 @@ import { CliFailure } from '../io';
 
 export interface CsvTable {
   readonly header: readonly string[];
-  /** Data rows, each with its 1-based line number in the file. */
-  readonly rows: readonly { readonly line: number; readonly cells: readonly string[] }[];
+  /** Data rows (blank lines excluded). */
+  readonly rowCount: number;
+  /** Calls `fn` for each data row with its cells and its 1-based line number in the file. */
+  forEachRow(fn: (cells: readonly string[], line: number) => void): void;
 }
 
-/** Splits text into a header and data rows; blank lines are skipped. Throws CliFailure when there is no header. */
+/**
+ * Splits text into a header and data rows; blank lines are skipped. Rows are split into
+ * cells only as they are visited, so a million-row file is never held as a million arrays.
+ * Throws CliFailure when there is no header.
+ */
 export function readCsvTable(text: string, source: string): CsvTable {
   const lines = text.replace(/^\uFEFF/, '').split(/\r?\n/);
-  let headerAt = lines.findIndex((l) => l.trim() !== '');
+  const headerAt = lines.findIndex((l) => l.trim() !== '');
   if (headerAt === -1) throw new CliFailure(`${source} is empty: expected a header row and data rows`);
   const delimiter = detectDelimiter(lines[headerAt]!);
   const header = splitCsvLine(lines[headerAt]!, delimiter).map((h) => h.trim());
-  const rows: { line: number; cells: string[] }[] = [];
-  for (let i = ++headerAt; i < lines.length; i++) {
-    const l = lines[i]!;
-    if (l.trim() === '') continue;
-    rows.push({ line: i + 1, cells: splitCsvLine(l, delimiter) });
-  }
-  return { header, rows };
+  let rowCount = 0;
+  for (let i = headerAt + 1; i < lines.length; i++) if (lines[i]!.trim() !== '') rowCount++;
+  return {
+    header,
+    rowCount,
+    forEachRow(fn) {
+      for (let i = headerAt + 1; i < lines.length; i++) {
+        const l = lines[i]!;
+        if (l.trim() !== '') fn(splitCsvLine(l, delimiter), i + 1);
+      }
+    },
+  };
 }
 
 /**
@@ -45,20 +56,26 @@ export function findColumn(table: CsvTable, wanted: string | undefined, defaults
   throw new CliFailure(`${source} has no column ${looked} (columns: ${table.header.map((h) => `'${h}'`).join(', ') || 'none'}); name it with ${flag}`);
 }
 
+/** Where a cell sits, for error messages. */
+export interface CellPlace {
+  readonly source: string;
+  readonly line: number;
+  readonly columnName: string;
+}
+
 /** A cell as text, trimmed; a missing or empty cell is a CliFailure naming the line and column. */
-export function textCell(table: CsvTable, rowIndex: number, column: number, source: string): string {
-  const row = table.rows[rowIndex]!;
-  const cell = row.cells[column]?.trim() ?? '';
-  if (cell === '') throw new CliFailure(`${source} line ${row.line}: column '${table.header[column]}' is empty`);
+export function textCell(cells: readonly string[], column: number, place: CellPlace): string {
+  const cell = cells[column]?.trim() ?? '';
+  if (cell === '') throw new CliFailure(`${place.source} line ${place.line}: column '${place.columnName}' is empty`);
   return cell;
 }
 
+const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
 /** A cell as a finite number (decimal point, optional exponent); anything else is a CliFailure. */
-export function numberCell(table: CsvTable, rowIndex: number, column: number, source: string): number {
-  const cell = textCell(table, rowIndex, column, source);
-  const value = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(cell) ? Number(cell) : NaN;
-  if (!Number.isFinite(value)) {
-    throw new CliFailure(`${source} line ${table.rows[rowIndex]!.line}: column '${table.header[column]}' holds '${cell}', which is not a number`);
-  }
+export function numberCell(cells: readonly string[], column: number, place: CellPlace): number {
+  const cell = textCell(cells, column, place);
+  const value = NUMBER.test(cell) ? Number(cell) : NaN;
+  if (!Number.isFinite(value)) throw new CliFailure(`${place.source} line ${place.line}: column '${place.columnName}' holds '${cell}', which is not a number`);
   return value;
 }

@@ -60,14 +60,18 @@ async function prepare(input: FitInput, flags: FlagValues): Promise<PreparedFit>
   const groupColumn = findColumn(table, flags['group-column'] as string | undefined, GROUP_DEFAULTS, '--group-column', source);
   const valueColumn = findColumn(table, flags['value-column'] as string | undefined, VALUE_DEFAULTS, '--value-column', source);
   if (groupColumn === valueColumn) throw new CliFailure(`--group-column and --value-column both name column '${table.header[groupColumn]}'`);
-  const n = table.rows.length;
+  const n = table.rowCount;
   if (n < 2) throw new CliFailure(`${source} has ${n === 0 ? 'no observations' : 'a single observation'}: a fit needs at least 2`);
   const labels: string[] = [];
   const index = new Map<string, number>();
   const group = new Int32Array(n);
   const value = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const label = textCell(table, i, groupColumn, source);
+  const groupPlace = { source, line: 0, columnName: table.header[groupColumn]! };
+  const valuePlace = { source, line: 0, columnName: table.header[valueColumn]! };
+  let i = 0;
+  table.forEachRow((cells, line) => {
+    groupPlace.line = valuePlace.line = line;
+    const label = textCell(cells, groupColumn, groupPlace);
     let g = index.get(label);
     if (g === undefined) {
       g = labels.length;
@@ -75,8 +79,9 @@ async function prepare(input: FitInput, flags: FlagValues): Promise<PreparedFit>
       labels.push(label);
     }
     group[i] = g;
-    value[i] = numberCell(table, i, valueColumn, source);
-  }
+    value[i] = numberCell(cells, valueColumn, valuePlace);
+    i++;
+  });
   const model = createGroupedModel(collapseWeighted(group, value, labels.length));
   const { layout } = model;
   return {
