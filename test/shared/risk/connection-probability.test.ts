@@ -198,3 +198,41 @@ describe('quadrature accuracy on a heavy-tailed mixture', () => {
     }
   });
 });
+
+// A Gumbel plus a Lomax (Pareto II) component with tail index 0.9: a tail so heavy that the mean
+// does not exist and the grid is cut long before the survival function becomes negligible.
+function lomaxMixture(kind: 'arrival' | 'departure') {
+  const g = gumbelDelay(2, 11);
+  const w = 0.08;
+  const alpha = 0.9;
+  const sigma = 40;
+  const lomaxS = (x: number) => (x <= 0 ? 1 : Math.pow(1 + x / sigma, -alpha));
+  const dist = {
+    cdf: (x: number) => (1 - w) * g.cdf(x) + w * (1 - lomaxS(x)),
+    survival: (x: number) => (1 - w) * g.survival(x) + w * lomaxS(x),
+    pdf: (x: number) => (1 - w) * g.pdf(x) + w * (x <= 0 ? 0 : (alpha / sigma) * Math.pow(1 + x / sigma, -alpha - 1)),
+    sample: (r: ReturnType<typeof createRng>) => g.sample(r),
+  };
+  return new RouteTables({ origin: 'ORD', destination: 'DEN', kind, pooling: 'route', flights: 1, derived: false, drawCount: 1, draw: () => dist }, 1);
+}
+
+describe('a tail too heavy for the grid', () => {
+  it('keeps P(make) monotone, the minimum layover exact, and samples finite', () => {
+    const arrival = lomaxMixture('arrival');
+    const pair = new ConnectionPair(arrival, lomaxMixture('departure'));
+    expect(arrival.table(0).heavyTail).toBe(true);
+    let previous = -1;
+    for (let layover = 0; layover <= 1440; layover += 3) {
+      const p = pMakeAtLayover(pair, layover, 45);
+      expect(p).toBeGreaterThanOrEqual(previous);
+      previous = p;
+    }
+    const min = minimumLayover(pair, 45, 0.95);
+    expect(min).not.toBeNull();
+    expect(pMakeAtLayover(pair, min!, 45)).toBeGreaterThanOrEqual(0.95);
+    expect(pMakeAtLayover(pair, min! - 1, 45)).toBeLessThan(0.95);
+    expect(minimumLayover(pair, 45, 0.999)).toBeNull();
+    const table = arrival.table(0);
+    for (const u of [1e-12, 0.5, 0.99, 1 - 1e-9]) expect(Number.isFinite(table.inverse(u))).toBe(true);
+  });
+});
