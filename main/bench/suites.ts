@@ -5,5 +5,7 @@ import { intakeSuite } from './suites/intake';
 import { riskSuite } from './suites/risk';
 import { appSuite } from './suites/app';
 import { historySuite } from './suites/history';
+import { bundleSuite } from './suites/bundle';
+import { reportSuite } from './suites/report';
 
-export const suites: readonly BenchSuite[] = [intakeSuite, riskSuite, inferenceSuite, appSuite, historySuite];
+export const suites: readonly BenchSuite[] = [intakeSuite, riskSuite, inferenceSuite, appSuite, historySuite, bundleSuite, reportSuite];

@@ -2,5 +2,6 @@
 import type { CliCommand } from './command';
 import { fitCommand } from './commands/fit';
 import { parseCommand } from './commands/parse';
+import { predictCommand } from './commands/predict';
 
-export const commands: readonly CliCommand[] = [fitCommand, parseCommand];
+export const commands: readonly CliCommand[] = [fitCommand, parseCommand, predictCommand];

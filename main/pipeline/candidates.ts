@@ -15,12 +15,12 @@ export const CANDIDATES: readonly Candidate[] = [
     description: 'typical Gumbel plus a wider disrupted Gumbel per route, every parameter including the logit weight pooled hierarchically',
   },
   {
-    name: 'gumbel-t-mixture+month',
-    family: 'gumbel-t',
+    name: 'gumbel-lomax+month',
+    family: 'gumbel-lomax',
     monthEffects: [0, 2, 4],
     description:
-      'typical Gumbel plus a heavy-tailed Student-t disrupted component (population degrees of freedom), pooled hierarchically, ' +
-      'with calendar-month random effects on the typical location, the disrupted location and the logit weight; a future month draws a new effect',
+      'typical Gumbel plus a heavy-tailed Lomax (Pareto II) disrupted component per route, its tail index a pooled route parameter, ' +
+      'with calendar-month random effects on the typical location, the disrupted scale and the logit weight; a future month draws a new effect',
   },
 ];
 

@@ -62,7 +62,7 @@ export const BundleSchema = v.strictObject({
     notes: v.array(v.string()),
   }),
   model: v.strictObject({
-    family: v.picklist(['gumbel', 'gumbel-gumbel', 'gumbel-t', 'gumbel-lomax']),
+    family: v.picklist(['gumbel', 'gumbel-gumbel', 'gumbel-t', 'gumbel-lomax', 'gumbel-gumbel-lomax']),
     parameters: v.array(v.string()),
     /** Indices into parameters that carry a calendar-month random effect. */
     monthEffects: v.array(v.pipe(v.number(), v.integer(), v.minValue(0))),
@@ -135,7 +135,7 @@ export function triangleSize(k: number): number {
  */
 function checkConsistency(b: PosteriorBundle): void {
   const k = b.model.parameters.length;
-  const expected: Record<string, number> = { gumbel: 2, 'gumbel-gumbel': 5, 'gumbel-t': 5, 'gumbel-lomax': 5 };
+  const expected: Record<string, number> = { gumbel: 2, 'gumbel-gumbel': 5, 'gumbel-t': 5, 'gumbel-lomax': 5, 'gumbel-gumbel-lomax': 8 };
   if (k !== expected[b.model.family]) fail(`model ${b.model.family} has ${expected[b.model.family]} parameters, the file lists ${k}`);
   for (const j of b.model.monthEffects) if (j >= k) fail(`month effect index ${j} is out of range`);
   const m = b.model.monthEffects.length;

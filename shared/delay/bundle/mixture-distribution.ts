@@ -1,23 +1,104 @@
 // The predictive delay distribution of one posterior draw of a tail-mixture route model.
 //
-// A typical Gumbel plus, for the mixture families, a disrupted Gumbel or Student-t with
-// weight w; an optional shift moves the whole distribution (departure delays derived from
-// arrival delays add the en-route recovery offset).
+// A typical Gumbel plus, for the mixture families, a disrupted Gumbel, Student-t or Lomax and
+// (for 'gumbel-gumbel-lomax') a severe Lomax, each with its weight; an optional shift moves
+// the whole distribution (departure delays derived from arrival delays add the en-route
+// recovery offset).
 import type { Rng } from '../../inference/rng';
 import { gumbelCdf, gumbelPdf, gumbelSample, gumbelSurvival } from '../gumbel';
-import type { TailFamily } from '../models/tail-mixture';
+import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
 import type { DelayDistribution } from '../predictive';
 
+type ComponentKind = 'gumbel' | 't' | 'lomax';
+
+interface Component {
+  readonly kind: ComponentKind;
+  readonly weight: number;
+  /** Gumbel: location; t: location; Lomax: where its support starts. */
+  readonly location: number;
+  /** Gumbel beta, t scale, Lomax lambda. */
+  readonly scale: number;
+  /** t degrees of freedom, Lomax tail index alpha. */
+  readonly shape: number;
+  /** log of the t density's constant, computed once (pdf is the hot call in scoring). */
+  readonly logConstant: number;
+}
+
+function sigmoid(x: number): number {
+  return 1 / (1 + Math.exp(-x));
+}
+
+function components(family: TailFamily, eta: ArrayLike<number>, df: number, shift: number): Component[] {
+  const typical = (weight: number): Component => ({ kind: 'gumbel', weight, location: eta[0]! + shift, scale: Math.exp(eta[1]!), shape: NaN, logConstant: NaN });
+  const lomax = (weight: number, logLambda: number, logAlpha: number): Component => ({
+    kind: 'lomax',
+    weight,
+    location: LOMAX_START_MINUTES + shift,
+    scale: Math.exp(logLambda),
+    shape: Math.exp(logAlpha),
+    logConstant: NaN,
+  });
+  if (family === 'gumbel') return [typical(1)];
+  const w = sigmoid(eta[4]!);
+  switch (family) {
+    case 'gumbel-gumbel':
+      return [typical(1 - w), { kind: 'gumbel', weight: w, location: eta[2]! + shift, scale: Math.exp(eta[3]!), shape: NaN, logConstant: NaN }];
+    case 'gumbel-t': {
+      const logConstant = logGamma((df + 1) / 2) - logGamma(df / 2) - 0.5 * Math.log(df * Math.PI) - eta[3]!;
+      return [typical(1 - w), { kind: 't', weight: w, location: eta[2]! + shift, scale: Math.exp(eta[3]!), shape: df, logConstant }];
+    }
+    case 'gumbel-lomax':
+      return [typical(1 - w), lomax(w, eta[2]!, eta[3]!)];
+    case 'gumbel-gumbel-lomax': {
+      const v = sigmoid(eta[7]!);
+      return [
+        typical(1 - w),
+        { kind: 'gumbel', weight: w * (1 - v), location: eta[2]! + shift, scale: Math.exp(eta[3]!), shape: NaN, logConstant: NaN },
+        lomax(w * v, eta[5]!, eta[6]!),
+      ];
+    }
+  }
+}
+
+function lomaxSurvival(c: Component, x: number): number {
+  const v = (x - c.location) / c.scale;
+  if (v <= 0) return 1;
+  return Math.exp(-c.shape * Math.log1p(v));
+}
+
+function componentSurvival(c: Component, x: number): number {
+  if (c.kind === 'gumbel') return gumbelSurvival(x, c.location, c.scale);
+  if (c.kind === 't') return studentTSurvival(x, c.location, c.scale, c.shape);
+  return lomaxSurvival(c, x);
+}
+
+function componentCdf(c: Component, x: number): number {
+  if (c.kind === 'gumbel') return gumbelCdf(x, c.location, c.scale);
+  if (c.kind === 't') return studentTCdf(x, c.location, c.scale, c.shape);
+  return 1 - lomaxSurvival(c, x);
+}
+
+function componentPdf(c: Component, x: number): number {
+  if (c.kind === 'gumbel') return gumbelPdf(x, c.location, c.scale);
+  if (!Number.isFinite(x)) return 0;
+  const u = (x - c.location) / c.scale;
+  if (c.kind === 't') return Math.exp(c.logConstant - ((c.shape + 1) / 2) * Math.log1p((u * u) / c.shape));
+  return u < 0 ? 0 : (c.shape / c.scale) * Math.exp(-(c.shape + 1) * Math.log1p(u));
+}
+
+function componentSample(c: Component, rng: Rng): number {
+  if (c.kind === 'gumbel') return gumbelSample(rng, c.location, c.scale);
+  if (c.kind === 't') return studentTSample(rng, c.location, c.scale, c.shape);
+  return c.location + c.scale * Math.expm1(-Math.log(rng.uniform()) / c.shape);
+}
+
+/**
+ * Edge cases: NaN x gives NaN from every function; x = ±Infinity gives the limits. Parameters
+ * come from a validated bundle, so they are finite.
+ */
 export class TailMixtureDistribution implements DelayDistribution {
-  private readonly mu: number;
-  private readonly beta: number;
-  private readonly w: number;
-  private readonly loc2: number;
-  private readonly scale2: number;
-  private readonly alpha: number;
-  /** log of the Student-t density's constant, computed once: pdf is the hot call in scoring. */
-  private readonly tLogConstant: number;
+  private readonly parts: readonly Component[];
 
   /** eta holds the family's unconstrained parameters (see FAMILY_PARAMETERS). */
   constructor(
@@ -26,77 +107,41 @@ export class TailMixtureDistribution implements DelayDistribution {
     readonly df: number,
     readonly shiftMinutes = 0,
   ) {
-    this.mu = eta[0]! + shiftMinutes;
-    this.beta = Math.exp(eta[1]!);
-    if (family === 'gumbel') {
-      this.w = 0;
-      this.loc2 = NaN;
-      this.scale2 = NaN;
-      this.alpha = NaN;
-      this.tLogConstant = NaN;
-    } else {
-      this.w = 1 / (1 + Math.exp(-eta[4]!));
-      if (family === 'gumbel-lomax') {
-        // Lomax: loc2 is where its support starts (0, moved by the shift), scale2 lambda, alpha the tail index.
-        this.loc2 = shiftMinutes;
-        this.scale2 = Math.exp(eta[2]!);
-        this.alpha = Math.exp(eta[3]!);
-      } else {
-        this.loc2 = eta[2]! + shiftMinutes;
-        this.scale2 = Math.exp(eta[3]!);
-        this.alpha = NaN;
-      }
-      this.tLogConstant = family === 'gumbel-t' ? logGamma((df + 1) / 2) - logGamma(df / 2) - 0.5 * Math.log(df * Math.PI) - eta[3]! : NaN;
-    }
+    this.parts = components(family, eta, df, shiftMinutes);
   }
 
-  /** The disrupted component's weight (0 for a single Gumbel). */
+  /** The weight of everything but the typical component (0 for a single Gumbel). */
   get disruptedWeight(): number {
-    return this.w;
+    return 1 - this.parts[0]!.weight;
   }
 
   cdf(x: number): number {
-    const c1 = gumbelCdf(x, this.mu, this.beta);
-    if (this.w === 0) return c1;
-    const c2 = this.family === 'gumbel-t' ? studentTCdf(x, this.loc2, this.scale2, this.df) : this.family === 'gumbel-lomax' ? 1 - this.lomaxSurvival(x) : gumbelCdf(x, this.loc2, this.scale2);
-    return (1 - this.w) * c1 + this.w * c2;
+    if (Number.isNaN(x)) return NaN;
+    let s = 0;
+    for (const c of this.parts) s += c.weight * componentCdf(c, x);
+    return s;
   }
 
   survival(x: number): number {
-    const s1 = gumbelSurvival(x, this.mu, this.beta);
-    if (this.w === 0) return s1;
-    const s2 =
-      this.family === 'gumbel-t' ? studentTSurvival(x, this.loc2, this.scale2, this.df) : this.family === 'gumbel-lomax' ? this.lomaxSurvival(x) : gumbelSurvival(x, this.loc2, this.scale2);
-    return (1 - this.w) * s1 + this.w * s2;
+    if (Number.isNaN(x)) return NaN;
+    let s = 0;
+    for (const c of this.parts) s += c.weight * componentSurvival(c, x);
+    return s;
   }
 
   pdf(x: number): number {
-    const p1 = gumbelPdf(x, this.mu, this.beta);
-    if (this.w === 0) return p1;
-    let p2: number;
-    if (this.family === 'gumbel-lomax') {
-      if (Number.isNaN(x)) return NaN;
-      const v = (x - this.loc2) / this.scale2;
-      p2 = v < 0 || !Number.isFinite(v) ? 0 : (this.alpha / this.scale2) * Math.exp(-(this.alpha + 1) * Math.log1p(v));
-    } else if (this.family === 'gumbel-t') {
-      if (Number.isNaN(x)) return NaN;
-      const u = (x - this.loc2) / this.scale2;
-      p2 = Number.isFinite(x) ? Math.exp(this.tLogConstant - ((this.df + 1) / 2) * Math.log1p((u * u) / this.df)) : 0;
-    } else p2 = gumbelPdf(x, this.loc2, this.scale2);
-    return (1 - this.w) * p1 + this.w * p2;
+    if (Number.isNaN(x)) return NaN;
+    let s = 0;
+    for (const c of this.parts) s += c.weight * componentPdf(c, x);
+    return s;
   }
 
   sample(rng: Rng): number {
-    if (this.w === 0 || rng.uniform() >= this.w) return gumbelSample(rng, this.mu, this.beta);
-    if (this.family === 'gumbel-lomax') return this.loc2 + this.scale2 * Math.expm1(-Math.log(rng.uniform()) / this.alpha);
-    return this.family === 'gumbel-t' ? studentTSample(rng, this.loc2, this.scale2, this.df) : gumbelSample(rng, this.loc2, this.scale2);
-  }
-
-  /** Lomax (Pareto II) survival (1 + (x - start) / lambda)^-alpha, 1 below its start. */
-  private lomaxSurvival(x: number): number {
-    if (Number.isNaN(x)) return NaN;
-    const v = (x - this.loc2) / this.scale2;
-    if (v <= 0) return 1;
-    return Math.exp(-this.alpha * Math.log1p(v));
+    let u = rng.uniform();
+    for (let i = 0; i < this.parts.length - 1; i++) {
+      u -= this.parts[i]!.weight;
+      if (u < 0) return componentSample(this.parts[i]!, rng);
+    }
+    return componentSample(this.parts[this.parts.length - 1]!, rng);
   }
 }

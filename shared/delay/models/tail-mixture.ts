@@ -17,17 +17,28 @@ import type { PeriodWeightedData } from '../evaluation/weighted-delays';
  * 'gumbel': [mu, log beta]. 'gumbel-gumbel': typical Gumbel [mu, log beta], disrupted Gumbel
  * [mu2, log beta2], [logit w]. 'gumbel-t': typical Gumbel, disrupted Student-t [m, log s],
  * [logit w], with a population degrees-of-freedom parameter. 'gumbel-lomax': typical Gumbel,
- * disrupted Lomax (Pareto type II) on delays >= 0 [log lambda, log alpha], [logit w]: a
+ * disrupted Lomax (Pareto type II) on delays from LOMAX_START_MINUTES [log lambda, log alpha], [logit w]: a
  * positive delay with a power-law tail S(x) = (1 + x/lambda)^-alpha whose tail index alpha
- * is a route parameter like the others.
+ * is a route parameter like the others. 'gumbel-gumbel-lomax': the typical and disrupted
+ * Gumbels of 'gumbel-gumbel' plus a severe Lomax component [log lambda, log alpha] taking a
+ * share v of the non-typical weight [logit v]: weights 1 - w, w (1 - v) and w v.
  */
-export type TailFamily = 'gumbel' | 'gumbel-gumbel' | 'gumbel-t' | 'gumbel-lomax';
+export type TailFamily = 'gumbel' | 'gumbel-gumbel' | 'gumbel-t' | 'gumbel-lomax' | 'gumbel-gumbel-lomax';
+
+/**
+ * Where the Lomax component's support starts: the lower edge of the 0-minute record, since a
+ * whole-minute record k stands for [k - 0.5, k + 0.5). Starting at 0 itself would let the
+ * density's finite peak at its start grow without bound on the many flights recorded at
+ * exactly 0, a degenerate fit of a continuous density to whole-minute data.
+ */
+export const LOMAX_START_MINUTES = -0.5;
 
 export const FAMILY_PARAMETERS: Readonly<Record<TailFamily, readonly string[]>> = {
   gumbel: ['mu', 'log_beta'],
   'gumbel-gumbel': ['mu', 'log_beta', 'mu_disrupted', 'log_beta_disrupted', 'logit_w'],
   'gumbel-t': ['mu', 'log_beta', 'm_disrupted', 'log_s_disrupted', 'logit_w'],
   'gumbel-lomax': ['mu', 'log_beta', 'log_lambda_disrupted', 'log_alpha_disrupted', 'logit_w'],
+  'gumbel-gumbel-lomax': ['mu', 'log_beta', 'mu_disrupted', 'log_beta_disrupted', 'logit_w', 'log_lambda_severe', 'log_alpha_severe', 'logit_v_severe'],
 };
 
 /** Per-parameter starting values and (weak) population prior: N(init, priorSd). */
@@ -36,12 +47,14 @@ const FAMILY_INIT: Readonly<Record<TailFamily, readonly number[]>> = {
   'gumbel-gumbel': [-6, Math.log(9), 15, Math.log(35), -1.3],
   'gumbel-t': [-6, Math.log(9), 25, Math.log(25), -1.3],
   'gumbel-lomax': [-6, Math.log(9), Math.log(30), Math.log(2.5), -1.3],
+  'gumbel-gumbel-lomax': [-6, Math.log(9), 15, Math.log(35), -1.3, Math.log(60), Math.log(3), -1.5],
 };
 const POP_PRIOR_SD: Readonly<Record<TailFamily, readonly number[]>> = {
   gumbel: [60, 2],
   'gumbel-gumbel': [60, 2, 100, 2, 3],
   'gumbel-t': [60, 2, 100, 2, 3],
   'gumbel-lomax': [60, 2, 2, 2, 3],
+  'gumbel-gumbel-lomax': [60, 2, 100, 2, 3, 2, 2, 3],
 };
 /**
  * Starting sds of route and airport effects: wide, so the first steps let routes move away
@@ -53,6 +66,7 @@ const FAMILY_INIT_SD: Readonly<Record<TailFamily, readonly number[]>> = {
   'gumbel-gumbel': [10, 0.5, 20, 0.7, 1],
   'gumbel-t': [10, 0.5, 20, 0.7, 1],
   'gumbel-lomax': [10, 0.5, 0.7, 0.5, 1],
+  'gumbel-gumbel-lomax': [10, 0.5, 20, 0.7, 1, 0.7, 0.5, 1],
 };
 /** log sd hyperparameters ~ N(LOG_SD_PRIOR_MEAN, LOG_SD_PRIOR_SD): weak, on the log scale. */
 const LOG_SD_PRIOR_MEAN = -1;
@@ -140,6 +154,7 @@ export function flightLogDensity(family: TailFamily, x: number, eta: Float64Arra
     return l1;
   }
   const w = 1 / (1 + Math.exp(-eta[4]!));
+  if (family === 'gumbel-gumbel-lomax') return threeComponentLogDensity(x, eta, l1, d1mu, d1b, w, grad, gradDf);
   let l2: number;
   let d2a: number;
   let d2b: number;
@@ -154,12 +169,12 @@ export function flightLogDensity(family: TailFamily, x: number, eta: Float64Arra
   } else if (family === 'gumbel-lomax') {
     const lambda = Math.exp(eta[2]!);
     const alpha = Math.exp(eta[3]!);
-    if (x < 0) {
+    if (x < LOMAX_START_MINUTES) {
       l2 = -Infinity;
       d2a = 0;
       d2b = 0;
     } else {
-      const v = x / lambda;
+      const v = (x - LOMAX_START_MINUTES) / lambda;
       const lg = Math.log1p(v);
       l2 = eta[3]! - eta[2]! - (alpha + 1) * lg;
       d2a = -1 + ((alpha + 1) * v) / (1 + v);
@@ -183,12 +198,12 @@ export function flightLogDensity(family: TailFamily, x: number, eta: Float64Arra
   const lp = a2 === -Infinity ? a1 : top + Math.log(Math.exp(a1 - top) + Math.exp(a2 - top));
   const r2 = a2 === -Infinity ? 0 : Math.exp(a2 - lp);
   const r1 = 1 - r2;
-  grad[0] = r1 * d1mu;
-  grad[1] = r1 * d1b;
-  grad[2] = r2 * d2a;
-  grad[3] = r2 * d2b;
+  grad[0] = r1 > 0 ? r1 * d1mu : 0;
+  grad[1] = r1 > 0 ? r1 * d1b : 0;
+  grad[2] = r2 > 0 ? r2 * d2a : 0;
+  grad[3] = r2 > 0 ? r2 * d2b : 0;
   grad[4] = r2 - w;
-  gradDf[0] = r2 * d2df;
+  gradDf[0] = r2 > 0 ? r2 * d2df : 0;
   return lp;
 }
 
@@ -200,6 +215,40 @@ export function flightLogDensity(family: TailFamily, x: number, eta: Float64Arra
  * makes the curvature of routes with 10 and with 30,000 flights alike, which L-BFGS and
  * ADVI need to converge in hundreds rather than many thousands of steps.
  */
+/** Lomax log density at x (support from LOMAX_START_MINUTES) and its derivatives in log lambda and log alpha. */
+function lomaxTerms(x: number, logLambda: number, logAlpha: number): { l: number; dLogLambda: number; dLogAlpha: number } {
+  if (x < LOMAX_START_MINUTES) return { l: -Infinity, dLogLambda: 0, dLogAlpha: 0 };
+  const alpha = Math.exp(logAlpha);
+  const v = (x - LOMAX_START_MINUTES) / Math.exp(logLambda);
+  const lg = Math.log1p(v);
+  return { l: logAlpha - logLambda - (alpha + 1) * lg, dLogLambda: -1 + (alpha + 1) * (v / (1 + v)), dLogAlpha: 1 - alpha * lg };
+}
+
+/** The three-component reference density (typical Gumbel, disrupted Gumbel, severe Lomax). */
+function threeComponentLogDensity(x: number, eta: Float64Array, l1: number, d1mu: number, d1b: number, w: number, grad: Float64Array, gradDf: Float64Array): number {
+  const v = 1 / (1 + Math.exp(-eta[7]!));
+  const beta2 = Math.exp(eta[3]!);
+  const z2 = (x - eta[2]!) / beta2;
+  const ez2 = Math.exp(-z2);
+  const l2 = -eta[3]! - z2 - ez2;
+  const sev = lomaxTerms(x, eta[5]!, eta[6]!);
+  const a = [Math.log1p(-w) + l1, Math.log(w) + Math.log1p(-v) + l2, Math.log(w) + Math.log(v) + sev.l];
+  const top = Math.max(...a);
+  const e = a.map((ai) => (ai === -Infinity ? 0 : Math.exp(ai - top)));
+  const sum = e[0]! + e[1]! + e[2]!;
+  const [r1, r2, r3] = e.map((ei) => ei / sum) as [number, number, number];
+  grad[0] = r1 > 0 ? r1 * d1mu : 0;
+  grad[1] = r1 > 0 ? r1 * d1b : 0;
+  grad[2] = r2 > 0 ? (r2 * (1 - ez2)) / beta2 : 0;
+  grad[3] = r2 > 0 ? r2 * (-1 + z2 * (1 - ez2)) : 0;
+  grad[4] = r2 + r3 - w;
+  grad[5] = r3 > 0 ? r3 * sev.dLogLambda : 0;
+  grad[6] = r3 > 0 ? r3 * sev.dLogAlpha : 0;
+  grad[7] = r3 - v * (r2 + r3);
+  gradDf[0] = 0;
+  return top + Math.log(sum);
+}
+
 export interface TailMixtureModel extends Model {
   readonly layout: TailMixtureLayout;
   /** The coordinate scales: theta = natural * scale. */
@@ -218,6 +267,7 @@ const FISHER_SCALE: Readonly<Record<TailFamily, readonly number[]>> = {
   'gumbel-gumbel': [0.1, 1.2, 0.02, 0.45, 0.4],
   'gumbel-t': [0.1, 1.2, 0.015, 0.45, 0.4],
   'gumbel-lomax': [0.1, 1.2, 0.3, 0.3, 0.4],
+  'gumbel-gumbel-lomax': [0.1, 1.2, 0.02, 0.45, 0.4, 0.2, 0.2, 0.3],
 };
 /** Rough 1 / sd_route per family parameter, for the scales of airport and population coordinates. */
 const POOL_SCALE: Readonly<Record<TailFamily, readonly number[]>> = {
@@ -225,6 +275,7 @@ const POOL_SCALE: Readonly<Record<TailFamily, readonly number[]>> = {
   'gumbel-gumbel': [0.3, 5, 0.1, 3, 2],
   'gumbel-t': [0.3, 5, 0.1, 3, 2],
   'gumbel-lomax': [0.3, 5, 2, 2, 2],
+  'gumbel-gumbel-lomax': [0.3, 5, 0.1, 3, 2, 2, 2, 2],
 };
 
 /** Builds the model over weighted (route, month, minute, count) data. */
@@ -294,7 +345,61 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
       const logBeta = eta[1]!;
       const invBeta = Math.exp(-logBeta);
       runGrad.fill(0);
-      if (family === 'gumbel') {
+      if (family === 'gumbel-gumbel-lomax') {
+        const w = 1 / (1 + Math.exp(-eta[4]!));
+        const v = 1 / (1 + Math.exp(-eta[7]!));
+        const logW1 = Math.log1p(-w);
+        const logW2 = Math.log(w) + Math.log1p(-v);
+        const logW3 = Math.log(w) + Math.log(v);
+        const mu2 = eta[2]!;
+        const logBeta2 = eta[3]!;
+        const invBeta2 = Math.exp(-logBeta2);
+        const logLambda = eta[5]!;
+        const invLambda = Math.exp(-logLambda);
+        const logAlpha = eta[6]!;
+        const alpha = Math.exp(logAlpha);
+        for (let t = i; t < end; t++) {
+          const n = data.count[t]!;
+          const x = data.value[t]!;
+          const z = (x - mu) * invBeta;
+          const ez = Math.exp(-z);
+          const a1 = logW1 - logBeta - z - ez;
+          const z2 = (x - mu2) * invBeta2;
+          const ez2 = Math.exp(-z2);
+          const a2 = logW2 - logBeta2 - z2 - ez2;
+          let a3 = -Infinity;
+          let u = 0;
+          let lg = 0;
+          if (x >= LOMAX_START_MINUTES) {
+            u = (x - LOMAX_START_MINUTES) * invLambda;
+            lg = Math.log1p(u);
+            a3 = logW3 + logAlpha - logLambda - (alpha + 1) * lg;
+          }
+          const top = a1 > a2 ? (a1 > a3 ? a1 : a3) : a2 > a3 ? a2 : a3;
+          const e1 = Math.exp(a1 - top);
+          const e2 = Math.exp(a2 - top);
+          const e3 = a3 > -Infinity ? Math.exp(a3 - top) : 0;
+          const sum = e1 + e2 + e3;
+          total += n * (top + Math.log(sum));
+          const r1 = e1 / sum;
+          const r2 = e2 / sum;
+          const r3 = e3 / sum;
+          if (r1 > 0) {
+            runGrad[0]! += n * r1 * (1 - ez) * invBeta;
+            runGrad[1]! += n * r1 * (-1 + z * (1 - ez));
+          }
+          if (r2 > 0) {
+            runGrad[2]! += n * r2 * (1 - ez2) * invBeta2;
+            runGrad[3]! += n * r2 * (-1 + z2 * (1 - ez2));
+          }
+          if (r3 > 0) {
+            runGrad[5]! += n * r3 * (-1 + (alpha + 1) * (u / (1 + u)));
+            runGrad[6]! += n * r3 * (1 - alpha * lg);
+          }
+          runGrad[4]! += n * (r2 + r3 - w);
+          runGrad[7]! += n * (r3 - v * (r2 + r3));
+        }
+      } else if (family === 'gumbel') {
         for (let t = i; t < end; t++) {
           const n = data.count[t]!;
           const z = (data.value[t]! - mu) * invBeta;
@@ -324,11 +429,11 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
           let d2b: number;
           let d2df = 0;
           if (hasLomax) {
-            const v = x * invScale2;
+            const v = (x - LOMAX_START_MINUTES) * invScale2;
             const lg = Math.log1p(v);
             a2 = logW + logAlpha - logScale2 - (alpha + 1) * lg;
-            if (x < 0 || !(a2 > -Infinity)) {
-              // The disrupted component has no mass below zero: the flight is all typical.
+            if (x < LOMAX_START_MINUTES || !(a2 > -Infinity)) {
+              // The disrupted component has no mass below its start: the flight is all typical.
               total += n * a1;
               runGrad[0]! += n * (1 - ez) * invBeta;
               runGrad[1]! += n * (-1 + z * (1 - ez));
@@ -367,12 +472,18 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
           }
           const r1 = 1 - r2;
           total += n * lp;
-          runGrad[0]! += n * r1 * (1 - ez) * invBeta;
-          runGrad[1]! += n * r1 * (-1 + z * (1 - ez));
-          runGrad[2]! += n * r2 * d2a;
-          runGrad[3]! += n * r2 * d2b;
+          // A component with zero responsibility contributes nothing, even where its own
+          // derivative overflows (0 * Infinity would poison the gradient with NaN).
+          if (r1 > 0) {
+            runGrad[0]! += n * r1 * (1 - ez) * invBeta;
+            runGrad[1]! += n * r1 * (-1 + z * (1 - ez));
+          }
+          if (r2 > 0) {
+            runGrad[2]! += n * r2 * d2a;
+            runGrad[3]! += n * r2 * d2b;
+            gDf += n * r2 * d2df;
+          }
           runGrad[4]! += n * (r2 - w);
-          gDf += n * r2 * d2df;
         }
       }
       if (gradPhi) for (let j = 0; j < k; j++) gradPhi[j]! += runGrad[j]!;

@@ -32,7 +32,7 @@ function syntheticData(): PeriodWeightedData {
   };
 }
 
-const families: TailFamily[] = ['gumbel', 'gumbel-gumbel', 'gumbel-t', 'gumbel-lomax'];
+const families: TailFamily[] = ['gumbel', 'gumbel-gumbel', 'gumbel-t', 'gumbel-lomax', 'gumbel-gumbel-lomax'];
 const input = { data: syntheticData(), airportCount: 3, originOf: Int32Array.from([0, 1, 2]), destinationOf: Int32Array.from([1, 2, 0]) };
 
 describe.each(families)('the %s route model', (family) => {
@@ -79,9 +79,11 @@ describe.each(families)('the %s route model', (family) => {
   });
 
   it('has a likelihood equal to the sum of per-flight densities of the predictive distribution', () => {
-    const eta = Float64Array.from({ length: model.layout.k }, (_, j) => [-3, Math.log(10), family === 'gumbel-lomax' ? Math.log(30) : 40, family === 'gumbel-lomax' ? Math.log(2.5) : Math.log(30), -1.5][j]!);
+    const lomax = family === 'gumbel-lomax';
+    const values = [-3, Math.log(10), lomax ? Math.log(30) : 40, lomax ? Math.log(2.5) : Math.log(30), -1.5, Math.log(60), Math.log(3), -1];
+    const eta = Float64Array.from({ length: model.layout.k }, (_, j) => values[j]!);
     const dist = new TailMixtureDistribution(family, eta, 3);
-    const g = new Float64Array(5);
+    const g = new Float64Array(8);
     const gd = new Float64Array(1);
     for (const x of [-30, 0, 12, 75, 400]) expect(flightLogDensity(family, x, eta, 3, g, gd)).toBeCloseTo(Math.log(dist.pdf(x)), 10);
   });
@@ -98,14 +100,14 @@ describe('component densities', () => {
     expect(flightLogDensity('gumbel-t', 55, eta, 3, new Float64Array(5), new Float64Array(1))).toBeCloseTo(studentTLogPdf(55, 30, 20, 3), 8);
   });
 
-  it('the Lomax component has the Pareto II survival (1 + x / lambda)^-alpha and no mass below zero', () => {
+  it('the Lomax component has the Pareto II survival (1 + x / lambda)^-alpha and no mass below its start, -0.5 min', () => {
     const eta = Float64Array.from([-200, 0, Math.log(30), Math.log(2.5), 40]);
     const d = new TailMixtureDistribution('gumbel-lomax', eta, NaN);
-    expect(d.survival(60)).toBeCloseTo((1 + 60 / 30) ** -2.5, 10);
-    expect(d.cdf(-1)).toBeLessThan(1e-12);
+    expect(d.survival(60)).toBeCloseTo((1 + 60.5 / 30) ** -2.5, 10);
+    expect(d.cdf(-0.6)).toBeLessThan(1e-12);
     const rng = createRng(2);
     let above = 0;
     for (let i = 0; i < 20_000; i++) if (d.sample(rng) > 60) above++;
-    expect(Math.abs(above / 20_000 - (1 + 2) ** -2.5)).toBeLessThan(0.01);
+    expect(Math.abs(above / 20_000 - (1 + 60.5 / 30) ** -2.5)).toBeLessThan(0.01);
   });
 });

@@ -1,0 +1,101 @@
+// Reference: @stdlib/stats-base-dists-gumbel (a general-purpose statistics library) for the
+// distribution functions; NIST/SEMATECH e-Handbook 1.3.6.6.16 for mean mu + gamma*beta and
+// variance pi^2 beta^2 / 6.
+import { describe, expect, it } from 'vitest';
+import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
+import { EULER_GAMMA, gumbelCdf, gumbelDistribution, gumbelLogPdf, gumbelMean, gumbelPdf, gumbelQuantile, gumbelSample, gumbelSurvival, gumbelVariance } from '../../../shared/delay/gumbel';
+import { createRng } from '../../../shared/inference/rng';
+import { expectClose } from './close';
+
+const PARAMS: [number, number][] = [[0, 1], [-4.5, 11], [30, 60], [1e3, 0.01]];
+const ZS = [-3, -1.5, -0.2, 0, 0.7, 2, 5, 12, 30];
+
+describe('Gumbel against @stdlib/stats-base-dists-gumbel', () => {
+  it.each(PARAMS)('log density, density, CDF and quantile agree for mu=%d, beta=%d', (mu, beta) => {
+    for (const z of ZS) {
+      const x = mu + beta * z;
+      expectClose(gumbelLogPdf(x, mu, beta), stdlibGumbel.logpdf(x, mu, beta), 1e-12, `logpdf(${x}; ${mu}, ${beta})`);
+      expectClose(gumbelPdf(x, mu, beta), stdlibGumbel.pdf(x, mu, beta), 1e-12, `pdf(${x}; ${mu}, ${beta})`);
+      expectClose(gumbelCdf(x, mu, beta), stdlibGumbel.cdf(x, mu, beta), 1e-12, `cdf(${x}; ${mu}, ${beta})`);
+    }
+    for (const p of [1e-12, 1e-4, 0.05, 0.3665, 0.5, 0.9, 0.999, 1 - 1e-9]) {
+      expectClose(gumbelQuantile(p, mu, beta), stdlibGumbel.quantile(p, mu, beta), 1e-9, `quantile(${p}; ${mu}, ${beta})`, 1e-9 * beta);
+    }
+    expectClose(gumbelMean(mu, beta), stdlibGumbel.mean(mu, beta), 1e-14, 'mean');
+    expectClose(gumbelVariance(mu, beta), stdlibGumbel.variance(mu, beta), 1e-14, 'variance');
+  });
+
+  it('keeps relative precision in the right tail where 1 - cdf would cancel', () => {
+    // For large z, P(X > x) = 1 - exp(-e^-z) ~ e^-z - e^-2z / 2.
+    const z = 40;
+    const exact = Math.exp(-z) - Math.exp(-2 * z) / 2;
+    expectClose(gumbelSurvival(z, 0, 1), exact, 1e-12, 'survival(40)');
+    expect(1 - stdlibGumbel.cdf(z, 0, 1)).toBe(0);
+  });
+});
+
+describe('Gumbel closed forms (NIST/SEMATECH e-Handbook 1.3.6.6.16)', () => {
+  it('has mean mu + gamma*beta and variance pi^2 beta^2 / 6, and sample moments match them', () => {
+    const mu = -4;
+    const beta = 12;
+    expect(gumbelMean(mu, beta)).toBeCloseTo(mu + EULER_GAMMA * beta, 12);
+    expect(gumbelVariance(mu, beta)).toBeCloseTo((Math.PI ** 2 * beta ** 2) / 6, 10);
+    const rng = createRng(17);
+    const n = 200_000;
+    let s = 0;
+    let ss = 0;
+    for (let i = 0; i < n; i++) {
+      const x = gumbelSample(rng, mu, beta);
+      s += x;
+      ss += x * x;
+    }
+    const mean = s / n;
+    const variance = ss / n - mean * mean;
+    const sd = Math.sqrt(gumbelVariance(mu, beta));
+    // Standard error of the mean sd/sqrt(n); of the variance about sd^2 sqrt((kurtosis - 1)/n), Gumbel excess kurtosis 2.4.
+    expect(Math.abs(mean - gumbelMean(mu, beta))).toBeLessThan((4 * sd) / Math.sqrt(n));
+    expect(Math.abs(variance / gumbelVariance(mu, beta) - 1)).toBeLessThan(4 * Math.sqrt(4.4 / n));
+  });
+
+  it('inverts: quantile(cdf(x)) = x', () => {
+    for (const x of [-20, -3, 0, 7, 45, 200]) expectClose(gumbelQuantile(gumbelCdf(x, 5, 15), 5, 15), x, 1e-9, `x=${x}`, 1e-9);
+  });
+});
+
+describe('Gumbel edge-case contract', () => {
+  it('returns NaN for NaN arguments and invalid parameters', () => {
+    for (const f of [gumbelLogPdf, gumbelPdf, gumbelCdf, gumbelSurvival]) {
+      expect(f(NaN, 0, 1)).toBeNaN();
+      expect(f(0, NaN, 1)).toBeNaN();
+      expect(f(0, 0, 0)).toBeNaN();
+      expect(f(0, 0, -1)).toBeNaN();
+      expect(f(0, 0, Infinity)).toBeNaN();
+      expect(f(0, Infinity, 1)).toBeNaN();
+    }
+    expect(gumbelQuantile(-0.1, 0, 1)).toBeNaN();
+    expect(gumbelQuantile(1.1, 0, 1)).toBeNaN();
+    expect(gumbelSample(createRng(1), 0, -1)).toBeNaN();
+    expect(gumbelMean(0, 0)).toBeNaN();
+    expect(gumbelVariance(0, -2)).toBeNaN();
+  });
+
+  it('gives the limits at infinite x and p of 0 or 1', () => {
+    expect(gumbelCdf(Infinity, 0, 1)).toBe(1);
+    expect(gumbelCdf(-Infinity, 0, 1)).toBe(0);
+    expect(gumbelSurvival(Infinity, 0, 1)).toBe(0);
+    expect(gumbelSurvival(-Infinity, 0, 1)).toBe(1);
+    expect(gumbelLogPdf(Infinity, 0, 1)).toBe(-Infinity);
+    expect(gumbelPdf(-Infinity, 0, 1)).toBe(0);
+    expect(gumbelQuantile(0, 0, 1)).toBe(-Infinity);
+    expect(gumbelQuantile(1, 0, 1)).toBe(Infinity);
+  });
+
+  it('gumbelDistribution throws on invalid parameters and otherwise matches the functions', () => {
+    expect(() => gumbelDistribution(0, 0)).toThrow(RangeError);
+    const d = gumbelDistribution(3, 9);
+    expect(d.cdf(10)).toBe(gumbelCdf(10, 3, 9));
+    expect(d.survival(100)).toBe(gumbelSurvival(100, 3, 9));
+    expect(d.pdf(-2)).toBe(gumbelPdf(-2, 3, 9));
+    expect(d.sample(createRng(4))).toBe(gumbelSample(createRng(4), 3, 9));
+  });
+});

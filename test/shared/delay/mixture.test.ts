@@ -1,0 +1,48 @@
+// Reference: the mixture's functions are weighted sums of the components', checked here against
+// @stdlib/stats-base-dists-gumbel and @stdlib/stats-base-dists-normal component values.
+import { describe, expect, it } from 'vitest';
+import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
+import stdlibNormal from '@stdlib/stats-base-dists-normal';
+import { gumbelDistribution } from '../../../shared/delay/gumbel';
+import { mixtureDistribution } from '../../../shared/delay/mixture';
+import { normalDistribution } from '../../../shared/delay/normal';
+import { createRng } from '../../../shared/inference/rng';
+import { expectClose } from './close';
+
+describe('mixtureDistribution', () => {
+  const mix = mixtureDistribution([gumbelDistribution(-4, 11), gumbelDistribution(30, 45), normalDistribution(0, 5)], [0.7, 0.2, 0.1]);
+
+  it('is the weighted sum of its components (stdlib Gumbel and Normal as reference)', () => {
+    for (const x of [-30, -5, 0, 15, 60, 120, 240]) {
+      const cdf = 0.7 * stdlibGumbel.cdf(x, -4, 11) + 0.2 * stdlibGumbel.cdf(x, 30, 45) + 0.1 * stdlibNormal.cdf(x, 0, 5);
+      const pdf = 0.7 * stdlibGumbel.pdf(x, -4, 11) + 0.2 * stdlibGumbel.pdf(x, 30, 45) + 0.1 * stdlibNormal.pdf(x, 0, 5);
+      expectClose(mix.cdf(x), cdf, 1e-12, `cdf(${x})`);
+      expectClose(mix.pdf(x), pdf, 1e-12, `pdf(${x})`);
+      expectClose(mix.survival(x), 1 - cdf, 1e-9, `survival(${x})`, 1e-15);
+    }
+  });
+
+  it('samples each component in proportion to its weight', () => {
+    const two = mixtureDistribution([normalDistribution(-100, 1), normalDistribution(100, 1)], [0.25, 0.75]);
+    const rng = createRng(3);
+    let high = 0;
+    const n = 40_000;
+    for (let i = 0; i < n; i++) if (two.sample(rng) > 0) high++;
+    expect(Math.abs(high / n - 0.75)).toBeLessThan(4 * Math.sqrt((0.75 * 0.25) / n));
+  });
+
+  it('rejects empty component lists and weights that are negative, non-finite or do not sum to 1', () => {
+    const g = gumbelDistribution(0, 1);
+    expect(() => mixtureDistribution([], [])).toThrow(/at least one/);
+    expect(() => mixtureDistribution([g], [0.5])).toThrow(/sum to 1/);
+    expect(() => mixtureDistribution([g, g], [1.5, -0.5])).toThrow(/>= 0/);
+    expect(() => mixtureDistribution([g, g], [NaN, 1])).toThrow(/finite/);
+    expect(() => mixtureDistribution([g], [0.5, 0.5])).toThrow(/1 components but 2 weights/);
+  });
+
+  it('returns NaN for NaN input', () => {
+    expect(mix.cdf(NaN)).toBeNaN();
+    expect(mix.survival(NaN)).toBeNaN();
+    expect(mix.pdf(NaN)).toBeNaN();
+  });
+});
