@@ -11,11 +11,16 @@ import type { Connection, ConnectionFlag, Leg, Problem, Trip } from './types';
 /** A gap longer than this between two legs is a stopover, not a connection (common practice, no source). */
 export const STOPOVER_MINUTES = 24 * 60;
 
-/** FNV-1a, 32 bit: a short stable id from the grouping key. */
-function fnv1a(text: string): string {
+/** FNV-1a, 32 bit, over the three grouping fields with a separator no field can confuse: a short stable id. */
+function tripHash(fields: readonly string[]): string {
   let h = 0x811c9dc5;
-  for (let i = 0; i < text.length; i++) {
-    h ^= text.charCodeAt(i);
+  for (const text of fields) {
+    for (let i = 0; i < text.length; i++) {
+      h ^= text.charCodeAt(i);
+      h = Math.imul(h, 0x01000193) >>> 0;
+    }
+    // 0x1_0000 is not a UTF-16 code unit, so ('ab', 'c') and ('a', 'bc') hash differently.
+    h ^= 0x10000;
     h = Math.imul(h, 0x01000193) >>> 0;
   }
   return h.toString(16).padStart(8, '0');
@@ -50,31 +55,40 @@ interface Group {
 }
 
 export function groupTrips(readLegs: readonly ReadLeg[], problems: Problem[]): Trip[] {
-  const groups = new Map<string, Group>();
+  // Nested maps rather than a joined string key: no key is built or hashed per leg.
+  const byTraveler = new Map<string, Map<string, Map<string, Group>>>();
+  const groups: Group[] = [];
   for (const r of readLegs) {
-    const key = JSON.stringify([r.traveler, r.trip, r.option]);
-    let g = groups.get(key);
+    let byTrip = byTraveler.get(r.traveler);
+    if (!byTrip) byTraveler.set(r.traveler, (byTrip = new Map()));
+    let byOption = byTrip.get(r.trip);
+    if (!byOption) byTrip.set(r.trip, (byOption = new Map()));
+    let g = byOption.get(r.option);
     if (!g) {
       g = { traveler: r.traveler, trip: r.trip, option: r.option, members: [] };
-      groups.set(key, g);
+      byOption.set(r.option, g);
+      groups.push(g);
     }
     g.members.push(r);
   }
 
   const trips: Trip[] = [];
   const usedIds = new Set<string>();
-  for (const [key, g] of groups) {
+  for (const g of groups) {
     const sorted = [...g.members].sort((a, b) => a.leg.departUtcMs - b.leg.departUtcMs || a.leg.line - b.leg.line);
     const members: ReadLeg[] = [];
-    const seen = new Map<string, ReadLeg>();
     for (const m of sorted) {
-      const twinKey = `${m.leg.departUtcMs}|${m.leg.from}|${m.leg.flight}`;
-      const twin = seen.get(twinKey);
+      // Sorted by departure, so a repeated leg sits among the kept legs with the same departure instant.
+      let twin: ReadLeg | undefined;
+      for (let k = members.length - 1; k >= 0; k--) {
+        const other = members[k];
+        if (!other || other.leg.departUtcMs !== m.leg.departUtcMs) break;
+        if (other.leg.from === m.leg.from && other.leg.flight === m.leg.flight) twin = other;
+      }
       if (twin) {
         problems.push(makeProblem(m.leg.line, 'warning', 'duplicate-leg', `the same flight as line ${twin.leg.line} (${m.leg.flight || 'no flight number'} ${m.leg.from} ${m.leg.departLocal}); counted once`, m.text));
         continue;
       }
-      seen.set(twinKey, m);
       members.push(m);
     }
     const legs = members.map((m) => m.leg);
@@ -100,8 +114,9 @@ export function groupTrips(readLegs: readonly ReadLeg[], problems: Problem[]): T
     tripDstWarning(legs, members[0]?.text, problems);
     const deadline = tripDeadline(members, legs, problems);
 
-    let id = `trip-${fnv1a(key)}`;
-    for (let n = 2; usedIds.has(id); n++) id = `trip-${fnv1a(key)}-${n}`;
+    const hash = tripHash([g.traveler, g.trip, g.option]);
+    let id = `trip-${hash}`;
+    for (let n = 2; usedIds.has(id); n++) id = `trip-${hash}-${n}`;
     usedIds.add(id);
     trips.push({ id, traveler: g.traveler, trip: g.trip, option: g.option, legs, connections, deadlineLocal: deadline?.local ?? null, deadlineUtc: deadline?.utc ?? null });
   }

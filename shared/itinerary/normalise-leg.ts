@@ -210,11 +210,11 @@ function resolveArrival(
   const fits: { wall: WallTime; utcMs: number; resolution: LocalResolution }[] = [];
   let gapSeen: { w: WallTime; r: LocalResolution } | null = null;
   // Offsets move by at most a few hours, so a day whose rough instant is far outside the window is skipped.
-  const roughOffsetMs = offsetMinutesAt(to.zone, departUtcMs) * 60_000;
-  for (const offset of [-1, 0, 1, 2]) {
-    const w = wall(addDays(departDate, offset), time);
-    const rough = wallTimeMs(w) - roughOffsetMs;
+  const roughBase = wallTimeMs(wall(departDate, time)) - offsetMinutesAt(to.zone, departUtcMs) * 60_000;
+  for (let offset = -1; offset <= 2; offset++) {
+    const rough = roughBase + offset * 86_400_000;
     if (!(rough > departUtcMs - 6 * 3_600_000 && rough < departUtcMs + (MAX_FLIGHT_MINUTES + 6 * 60) * 60_000)) continue;
+    const w = wall(addDays(departDate, offset), time);
     const r = resolveLocalTime(to.zone, w);
     const instants = r.kind === 'exact' ? [r.utcMs] : r.kind === 'ambiguous' ? [r.utcMs, r.laterUtcMs] : [];
     if (r.kind === 'gap') gapSeen = { w, r };

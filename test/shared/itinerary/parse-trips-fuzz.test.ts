@@ -68,9 +68,9 @@ function checkInvariants(text: string, parsed: ParsedTrips): void {
 }
 
 describe('parseTrips on hostile input', () => {
-  it('never throws and accounts for every non-blank line (400 seeded random documents)', () => {
+  it('never throws and accounts for every non-blank line (250 seeded random documents)', () => {
     const rng = createRng(20260308);
-    for (let i = 0; i < 400; i++) {
+    for (let i = 0; i < 250; i++) {
       const text = randomDocument(rng);
       let parsed: ParsedTrips | undefined;
       expect(() => (parsed = parseTrips(text)), `document ${i}: ${JSON.stringify(text).slice(0, 500)}`).not.toThrow();
@@ -95,13 +95,13 @@ describe('parseTrips on hostile input', () => {
     }
   });
 
-  it('copes with a megabyte on one line and with 20,000 short garbage lines', () => {
+  it('copes with a megabyte on one line and with 5,000 short garbage lines', () => {
     const rng = createRng(3);
     const oneLine = Array.from({ length: 100_000 }, () => randomLine(rng).slice(0, 10)).join(' ').replace(/[\r\n]/g, ' ');
     const big = parseTrips(oneLine);
     checkInvariants(oneLine, big);
     expect(big.problems.map((p) => p.code)).toContain('line-too-long');
-    const many = Array.from({ length: 20_000 }, () => randomLine(rng).slice(0, 40)).join('\n');
+    const many = Array.from({ length: 5_000 }, () => randomLine(rng).slice(0, 40)).join('\n');
     checkInvariants(many, parseTrips(many));
   });
 
