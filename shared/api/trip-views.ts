@@ -6,9 +6,22 @@ import type { RouteEvidence, ScoredConnection, ScoredTrip, ScoredTrips } from '.
 import type { ConnectionView, GroupView, LegView, RouteData, TripView } from './analysis-schema';
 
 const abbreviationFormats = new Map<string, Intl.DateTimeFormat>();
+/** Abbreviations by zone and UTC half hour: zones change offset on the hour or the half hour. */
+const abbreviationByHour = new Map<string, string>();
 
 /** The zone's short name at an instant ('EST', 'CDT'; 'GMT+1' where the locale has none). */
 export function zoneAbbreviation(zone: string, utcMs: number): string {
+  // Keyed by half hour, since a few zones (e.g. Lord Howe) switch on the half hour.
+  const key = `${zone}|${Math.floor(utcMs / 1_800_000)}`;
+  const known = abbreviationByHour.get(key);
+  if (known !== undefined) return known;
+  const name = formatAbbreviation(zone, utcMs);
+  if (abbreviationByHour.size > 50_000) abbreviationByHour.clear();
+  abbreviationByHour.set(key, name);
+  return name;
+}
+
+function formatAbbreviation(zone: string, utcMs: number): string {
   let format = abbreviationFormats.get(zone);
   if (!format) {
     try {
