@@ -119,6 +119,7 @@ export const fitCommand: CliCommand = {
       converged: result.converged,
       observations: prepared.observations,
       model: adapter.name,
+      ...prepared.modelDiagnostics,
       seed,
       ...(warnings.length > 0 ? { warnings: warnings.join('; ') } : {}),
     };

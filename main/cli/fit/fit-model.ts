@@ -21,6 +21,8 @@ export interface PreparedFit {
   readonly model: Model;
   /** Data rows behind the fit. */
   readonly observations: number;
+  /** Facts about the model to print with the diagnostics (e.g. the likelihood used). */
+  readonly modelDiagnostics?: Readonly<Record<string, string | number | boolean>>;
   /** Non-centred blocks NUTS should sample in centred form (data-rich groups; see centred-view.ts). */
   readonly nutsCentredBlocks?: readonly NonCentredBlock[];
   summarise(result: FitResult, rng: Rng): FitSummary;

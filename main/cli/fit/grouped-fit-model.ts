@@ -6,7 +6,7 @@ import { groupHierarchyBlocks, observationsPerGroup } from '../../../shared/infe
 import type { FitResult } from '../../../shared/inference/fit-types';
 import type { Rng } from '../../../shared/inference/rng';
 import { collapseWeighted } from '../../../shared/inference/weighted-data';
-import { CliFailure } from '../io';
+import { CliFailure, UsageError } from '../io';
 import { findColumn, numberCell, textCell } from './csv-columns';
 import { RunningMoments } from '../../../shared/inference/diagnostics/running-moments';
 import type { FitInput, FitModelAdapter, FlagValues, Moments, PreparedFit } from './fit-model';
@@ -82,11 +82,15 @@ async function prepare(input: FitInput, flags: FlagValues): Promise<PreparedFit>
     value[i] = numberCell(cells, valueColumn, valuePlace);
     i++;
   });
-  const model = createGroupedModel(collapseWeighted(group, value, labels.length));
+  const likelihood = (flags['likelihood'] as string | undefined) ?? 'point';
+  if (likelihood !== 'point' && likelihood !== 'interval') throw new UsageError(`fit: --likelihood must be point or interval, got '${likelihood}'`);
+  // Values rounded to the minute stand for the interval (v - 0.5, v + 0.5].
+  const model = createGroupedModel(collapseWeighted(group, value, labels.length), { intervalHalfWidth: likelihood === 'interval' ? 0.5 : 0 });
   const { layout } = model;
   return {
     model,
     observations: n,
+    modelDiagnostics: { groups: labels.length, likelihood: likelihood === 'interval' ? 'interval (rounded to the minute)' : 'point' },
     nutsCentredBlocks: groupHierarchyBlocks([layout.location, layout.logScale, layout.logitWeight], observationsPerGroup(model.data)),
     summarise(result: FitResult, rng: Rng) {
       const moments = groupPosteriorMoments(model, result, rng);
@@ -107,7 +111,9 @@ export const groupedFitModel: FitModelAdapter = {
   flagUsage: [
     `  --group-column NAME   the group column (default: ${GROUP_DEFAULTS.map((c) => `'${c}'`).join(' or ')})`,
     `  --value-column NAME   the value column, e.g. delay minutes (default: ${VALUE_DEFAULTS.map((c) => `'${c}'`).join(', ')})`,
+    '  --likelihood KIND     point (default): the density at each value; interval: each value v',
+    '                        stands for (v - 0.5, v + 0.5], exact for delays rounded to the minute',
   ],
-  flags: { 'group-column': { type: 'string' }, 'value-column': { type: 'string' } },
+  flags: { 'group-column': { type: 'string' }, 'value-column': { type: 'string' }, likelihood: { type: 'string' } },
   prepare,
 };

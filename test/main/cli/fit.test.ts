@@ -69,6 +69,8 @@ describe.each([
     expect(out.iterations).toBeGreaterThan(0);
     expect(out.elapsedMs).toBeGreaterThanOrEqual(0);
     expect(out.diagnostics['observations']).toBe(3 * PER_GROUP);
+    expect(out.diagnostics['likelihood']).toBe('point');
+    expect(out.diagnostics['groups']).toBe(3);
     expect(out.groups.map((g) => g.group)).toEqual(TRUTH.map((t) => t.group));
     for (const [i, g] of out.groups.entries()) {
       const t = TRUTH[i]!;
@@ -130,6 +132,25 @@ describe('layline fit', () => {
     const cli = io();
     expect(await runCli(['fit', file, '--model', 'grouped', '--method', 'map', '--group-column', 'route', '--value-column', 'arrival_delay', '--json'], cli), cli.err()).toBe(0);
     expect((JSON.parse(cli.out()) as FitJson).groups.map((g) => g.group)).toEqual(['A', 'B']);
+  });
+
+  it('fits the rounded-minute interval likelihood with --likelihood interval, close to the point fit for wide delays', async () => {
+    const run = async (likelihood: string) => {
+      const cli = io();
+      expect(await runCli(['fit', dataFile, '--model', 'grouped', '--method', 'map', '--likelihood', likelihood, '--json'], cli), cli.err()).toBe(0);
+      return (JSON.parse(cli.out()) as FitJson).groups;
+    };
+    const point = await run('point');
+    const interval = await run('interval');
+    expect(interval.some((g, i) => g.scale.mean !== point[i]!.scale.mean)).toBe(true);
+    // Rounding to the minute changes a Gumbel of scale >= 6 very little (Sheppard: variance + 1/12).
+    interval.forEach((g, i) => {
+      expect(Math.abs(g.location.mean - point[i]!.location.mean)).toBeLessThan(0.1);
+      expect(Math.abs(g.scale.mean / point[i]!.scale.mean - 1)).toBeLessThan(0.01);
+    });
+    const bad = io();
+    expect(await runCli(['fit', dataFile, '--model', 'grouped', '--method', 'map', '--likelihood', 'binned'], bad)).toBe(2);
+    expect(bad.err()).toMatch(/--likelihood must be point or interval/);
   });
 
   it('names the missing column and lists the ones present (exit 1)', async () => {
