@@ -1,4 +1,8 @@
-// The posterior bundle that ships with the app.
-export async function loadBundledPosteriors(): Promise<never> {
-  throw new Error('this build does not include a posterior bundle yet (shared/delay/bundle has no default bundle)');
+// The posterior bundle that ships with the app (shared/data/route-posteriors.json via the
+// bundle module), loaded once per engine on the first request that needs it.
+import type { PosteriorSource } from '../delay/predictive';
+import { loadDefaultPosteriorSource } from '../delay/bundle/default-bundle';
+
+export async function loadBundledPosteriors(): Promise<PosteriorSource> {
+  return loadDefaultPosteriorSource();
 }
