@@ -6,7 +6,7 @@
 import { findAirport } from '../time/airports';
 import { formatWallTime } from '../time/zones';
 import { excerpt, isBlank, type InputLine } from './input-lines';
-import { findDates, findTimes, type CalendarDate, type ClockTime } from './local-time';
+import { findDates, findDatesWithoutYear, findTimes, type CalendarDate, type ClockTime, type Found } from './local-time';
 import { LineProblems, tooLongLine, type RawLeg } from './normalise-leg';
 
 /** Airline designator (two characters, at least one a letter) and flight number (IATA style, common practice). */
@@ -58,6 +58,8 @@ export function readFreeText(lines: readonly InputLine[]): FreeTextRead {
   const contextLines: number[] = [];
   const context: Record<ContextKey, string> = { traveler: '', trip: '', option: '', booking: '' };
   let contextDate: CalendarDate | null = null;
+  /** The latest date read on any line, from which a date written without a year takes its year. */
+  let latestDate: CalendarDate | null = null;
 
   for (const line of lines) {
     if (isBlank(line.text)) continue;
@@ -76,7 +78,9 @@ export function readFreeText(lines: readonly InputLine[]): FreeTextRead {
       continue;
     }
 
-    const dates = findDates(text);
+    const fullDates = findDates(text);
+    const dates: Found<CalendarDate>[] = fullDates.length ? fullDates : findDatesWithoutYear(text, latestDate);
+    for (const d of dates) if (d.value.ok) latestDate = d.value.value;
     const times = findTimes(blank(text, dates));
     const withoutDatesTimes = blank(text, [...dates, ...times]);
     const flightMatch = FLIGHT_RE.exec(withoutDatesTimes);

@@ -142,7 +142,8 @@ function tripDstWarning(legs: readonly Leg[], text: string | undefined, problems
     }
   }
   if (seen.length) {
-    problems.push(makeProblem(first.line, 'warning', 'dst-change-during-trip', `clocks change during this trip: ${seen.join('; ')}; local times before and after use different UTC offsets`, text));
+    const listed = seen.length > 3 ? [...seen.slice(0, 3), `${seen.length - 3} more`] : seen;
+    problems.push(makeProblem(first.line, 'warning', 'dst-change-during-trip', `clocks change during this trip: ${listed.join('; ')}; local times before and after use different UTC offsets`, text));
   }
 }
 

@@ -125,6 +125,45 @@ export function findDates(text: string): Found<CalendarDate>[] {
   return found.sort((a, b) => a.index - b.index);
 }
 
+const PARTIAL_DATE_PATTERNS: { re: RegExp; day: number; month: number }[] = [
+  // 8 Mar, 08MAR, Sunday 8 March (no year after it)
+  { re: new RegExp(`\\b(?:${WEEKDAYS}\\s*)?(\\d{1,2})(?:st|nd|rd|th)?[\\s-]*(${MONTH_NAMES})\\b\\.?(?![\\s-]*\\d)`, 'gi'), day: 1, month: 2 },
+  // Mar 8, Sunday, March 8th (no year, and not a clock time after it)
+  { re: new RegExp(`\\b(?:${WEEKDAYS}\\s*)?(${MONTH_NAMES})\\.?\\s+(\\d{1,2})(?:st|nd|rd|th)?\\b(?![:.h]?\\d)(?!,?\\s+\\d{4})`, 'gi'), day: 2, month: 1 },
+];
+
+/**
+ * Dates written without a year ("08MAR", "Sunday 8 March"), as airline e-mails often do.
+ *
+ * The year comes from `reference` (the latest date above): itineraries run forward, so it is
+ * the first such date from a week before the reference on. Without a reference the date is
+ * refused with a message asking for the year.
+ */
+export function findDatesWithoutYear(text: string, reference: CalendarDate | null): Found<CalendarDate>[] {
+  if (!/\d/.test(text)) return [];
+  const found: Found<CalendarDate>[] = [];
+  for (const { re, day, month } of PARTIAL_DATE_PATTERNS) {
+    re.lastIndex = 0;
+    for (let m = re.exec(text); m; m = re.exec(text)) {
+      const start = m.index;
+      const end = start + m[0].length;
+      if (found.some((f) => start < f.index + f.length && end > f.index)) continue;
+      const d = Number(m[day]);
+      const mo = MONTHS[(m[month] ?? '').toLowerCase()] ?? 0;
+      let value: Parsed<CalendarDate>;
+      if (!reference) value = { ok: false, message: `'${m[0].trim()}' has no year; write the year, or put a full date line (e.g. 'Sunday, 8 March 2026') above` };
+      else {
+        let year = reference.year;
+        const days = (c: CalendarDate) => Date.UTC(c.year, c.month - 1, c.day) / 86_400_000;
+        if (calendarDate(year, mo, d) && days({ year, month: mo, day: d }) < days(reference) - 7) year++;
+        value = checked(year, mo, d, m[0].trim());
+      }
+      found.push({ value, index: start, length: m[0].length });
+    }
+  }
+  return found.sort((a, b) => a.index - b.index);
+}
+
 // 07:05, 7:05 pm, 7:05PM, 7:05 p.m., 19h05, and 7pm; seconds (07:05:00) are allowed and must be zero.
 const TIME_RE = /(?<![\d:])(\d{1,2})(?:[:h](\d{2})(?::(\d{2}))?)?\s*(a\.?m\.?|p\.?m\.?)?(?![\d:])/gi;
 

@@ -144,6 +144,17 @@ describe('free text from an itinerary e-mail', () => {
     }
   });
 
+  it('takes the year of a date written without one (08MAR, 30 Dec) from the dates above, rolling into the next year', () => {
+    const r = parseTrips('Sunday, 8 March 2026\nBA 117 | Mon 09MAR | LHR 08:25 → JFK 11:05\nLH 400 | 30 Dec | FRA 13:10 JFK 15:50\nAA 1 02 Jan JFK 09:00 LAX 12:15');
+    expect(r.trips[0]?.legs.map((l) => `${l.flight} ${l.departLocal}`)).toEqual(['BA117 2026-03-09T08:25', 'LH400 2026-12-30T13:10', 'AA1 2027-01-02T09:00']);
+  });
+
+  it('asks for the year when a date without one has nothing above it', () => {
+    const r = parseTrips('BA 117 09MAR LHR 08:25 JFK 11:05');
+    expect(codes(r)).toEqual(['0 error no-legs', '1 error invalid-date']);
+    expect(r.problems[1]?.message).toMatch(/'09MAR' has no year/);
+  });
+
   it('refuses a numeric date whose day and month could be swapped', () => {
     const r = parseTrips('UA 901 03/08/2026 SFO 19:05 FRA 15:05 +1');
     expect(r.trips).toEqual([]);
