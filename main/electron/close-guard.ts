@@ -20,6 +20,11 @@ export class CloseGuard {
 
   constructor(private readonly deps: CloseGuardDeps) {}
 
+  /** A save asked for by the prompt did not happen (cancelled or failed): stay open, stop waiting. */
+  saveDidNotHappen(): void {
+    this.closeWhenClean = false;
+  }
+
   setDirty(dirty: boolean): void {
     this.dirty = dirty;
     if (!dirty && this.closeWhenClean) {

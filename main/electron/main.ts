@@ -140,6 +140,7 @@ app.whenReady().then(async () => {
       },
       openExternal: (url) => shell.openExternal(url),
       onDirty: (dirty) => guard?.setDirty(dirty),
+      onSaveNotDone: () => guard?.saveDidNotHappen(),
       onRecentChanged: (paths) => {
         const latest = paths[0];
         if (latest) app.addRecentDocument(latest);

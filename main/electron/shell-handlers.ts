@@ -18,6 +18,8 @@ export interface ShellDeps {
   readonly openExternal: (url: string) => Promise<void>;
   /** The page's unsaved-changes state, for the prompt on close. */
   readonly onDirty: (dirty: boolean) => void;
+  /** A save was asked for and did not happen (cancelled or failed). */
+  readonly onSaveNotDone: () => void;
   /** Called after the recent list changes (to rebuild the menu). */
   readonly onRecentChanged: (paths: string[]) => void;
 }
@@ -39,9 +41,13 @@ export function createShellHandlers(deps: ShellDeps): ShellHandlers {
       let target: string | null = null;
       if (saveAs || session.filePath === null) {
         target = await deps.chooseWorkspaceToSave(session.filePath);
-        if (target === null) return { status: 'cancelled' };
+        if (target === null) {
+          deps.onSaveNotDone();
+          return { status: 'cancelled' };
+        }
       }
       const result = await session.save(content, target);
+      if (result.status !== 'saved') deps.onSaveNotDone();
       await recentChanged();
       return result;
     },

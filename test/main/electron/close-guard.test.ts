@@ -43,7 +43,31 @@ describe('CloseGuard', () => {
   });
 });
 
+describe('CloseGuard, after a cancelled save', () => {
+  it('stays open and does not close on a later, unrelated save', async () => {
+    const { guard, deps } = guardAnswering('save');
+    guard.setDirty(true);
+    guard.shouldPreventClose();
+    await vi.waitFor(() => expect(deps.requestSave).toHaveBeenCalled());
+    guard.saveDidNotHappen();
+    guard.setDirty(false);
+    expect(deps.close).not.toHaveBeenCalled();
+  });
+});
+
 describe('AppEventQueue', () => {
+  it('hands an event to the newest waiter only (an older one belongs to a reloaded page)', async () => {
+    const q = new AppEventQueue();
+    let staleSettled = false;
+    void q.next().then(() => (staleSettled = true));
+    const live = q.next();
+    q.push({ kind: 'menu', command: 'open' });
+    await expect(live).resolves.toEqual({ kind: 'menu', command: 'open' });
+    // A resolved promise settles within the microtask queue, which has run by now.
+    await Promise.resolve();
+    expect(staleSettled).toBe(false);
+  });
+
   it('delivers events in order to waiting and later callers', async () => {
     const q = new AppEventQueue();
     const first = q.next();

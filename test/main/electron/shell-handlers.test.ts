@@ -27,6 +27,7 @@ function shell(overrides: Partial<ShellDeps> = {}) {
     setTheme: vi.fn(() => ({ dark: true })),
     openExternal: vi.fn(async () => undefined),
     onDirty: vi.fn(),
+    onSaveNotDone: vi.fn(),
     onRecentChanged: vi.fn(),
     ...overrides,
   };
@@ -65,8 +66,9 @@ describe('shell handlers', () => {
   });
 
   it('cancels cleanly when the user closes a dialog', async () => {
-    const { handlers } = shell({ chooseWorkspaceToSave: async () => null });
+    const { handlers, deps } = shell({ chooseWorkspaceToSave: async () => null });
     await expect(handlers.saveWorkspace(content, true)).resolves.toEqual({ status: 'cancelled' });
+    expect(deps.onSaveNotDone).toHaveBeenCalled();
     await expect(handlers.openWorkspace(null)).resolves.toEqual({ status: 'cancelled' });
     await expect(handlers.importTripsFile()).resolves.toEqual({ status: 'cancelled' });
   });
