@@ -130,6 +130,23 @@ describe('southern hemisphere and half-hour rules (IANA tz database)', () => {
   });
 });
 
+describe('unusual transitions (IANA tz database; dates from memory of its Pacific/Apia and Africa/Casablanca rules)', () => {
+  it('Samoa skipped the whole local day of 2011-12-30 when it crossed the date line', () => {
+    expect(resolveLocalTime('Pacific/Apia', w(2011, 12, 30, 12, 0)).kind).toBe('gap');
+    expect(resolveLocalTime('Pacific/Apia', w(2011, 12, 29, 23, 59))).toMatchObject({ kind: 'exact', offsetMinutes: -600 });
+    expect(resolveLocalTime('Pacific/Apia', w(2011, 12, 31, 0, 0))).toMatchObject({ kind: 'exact', offsetMinutes: 840 });
+  });
+
+  it('Morocco sets its clocks back for Ramadan and forward after it, weeks apart', () => {
+    const changes = offsetChangesBetween('Africa/Casablanca', Date.UTC(2026, 0, 1), Date.UTC(2026, 11, 31));
+    expect(changes).toHaveLength(2);
+    const [back, forward] = changes;
+    expect(offsetMinutesAt('Africa/Casablanca', (back ?? 0) - 60_000) - offsetMinutesAt('Africa/Casablanca', back ?? 0)).toBe(60);
+    expect(offsetMinutesAt('Africa/Casablanca', forward ?? 0) - offsetMinutesAt('Africa/Casablanca', (forward ?? 0) - 60_000)).toBe(60);
+    expect((forward ?? 0) - (back ?? 0)).toBeGreaterThan(20 * DAY);
+  });
+});
+
 describe('wall time at an instant', () => {
   it('converts an instant back to the local wall clock, across the date line (IANA tz database)', () => {
     const t = Date.UTC(2026, 2, 10, 12, 55);
