@@ -7,9 +7,9 @@ import { access, constants, readFile, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { validateBundle, type PosteriorBundle } from '../../../shared/delay/bundle/bundle-schema';
 import { createBundleSource } from '../../../shared/delay/bundle/posterior-source';
-import type { Candidate } from '../../../shared/delay/bundle/fit-bundle';
 import { HISTORY_FIELDS, type ColumnOverrides, type HistoryField } from '../../../shared/history/columns';
-import { candidateFromBundle, fitRouteHistory, HISTORY_FIT_METHODS, type HistoryFitMethod, type HistoryFitResult, type KindEvaluation } from '../../../shared/history/history-fit';
+import { candidateFromBundle, fitRouteHistory, HISTORY_FIT_METHODS, type HistoryFitMethod, type KindEvaluation } from '../../../shared/history/history-fit';
+import { summariseHistoryFit } from '../../../shared/history/history-fit-summary';
 import { HoldoutError, parseHoldoutAfter } from '../../../shared/history/holdout';
 import { FitAbortedError, FitDivergedError } from '../../../shared/inference/fit-types';
 import { readHistoryFile } from '../../history/read-history-file';
@@ -132,41 +132,6 @@ function calibrationLines(e: KindEvaluation): string[] {
   return lines;
 }
 
-/** The JSON summary: import counts, the split, the held-out scores and calibration, the bundle. */
-export function routeHistorySummary(input: string, out: string, format: string, result: HistoryFitResult, candidate: Candidate, bytes: number): Record<string, unknown> {
-  const evaluation = (e: KindEvaluation | null) =>
-    e && {
-      flights: e.flights,
-      natsPerFlight: e.natsPerFlight,
-      calibration: e.pooled,
-      busiestRoutes: e.busiestRoutes,
-      routeMedianAbsRelativeError: e.routeMedianAbsRelativeError,
-      qq: e.qq,
-      baseline: e.baseline,
-    };
-  return {
-    input,
-    format,
-    out,
-    model: 'route',
-    family: candidate.name,
-    method: result.method,
-    elapsedMs: result.elapsedMs,
-    import: result.summary,
-    holdout: result.holdout,
-    heldOut: { arrival: evaluation(result.arrival), departure: evaluation(result.departure) },
-    bundle: {
-      id: result.bundle.id,
-      bytes,
-      flights: result.bundle.metadata.flights,
-      routes: result.bundle.metadata.routes,
-      airports: result.bundle.metadata.airports,
-      departures: result.departure ? 'fitted' : 'derived',
-      diagnostics: result.bundle.metadata.diagnostics,
-    },
-  };
-}
-
 export async function runRouteHistoryFit(argv: string[], io: CliIo, deps: RouteHistoryFitDeps = {}): Promise<number> {
   const { values, positionals } = parseFlags(
     argv,
@@ -247,7 +212,7 @@ export async function runRouteHistoryFit(argv: string[], io: CliIo, deps: RouteH
     progress.update(1, `saved ${path.basename(out)}`);
     progress.done();
     if (values.json) {
-      io.stdout(JSON.stringify(routeHistorySummary(input, out, read.format, result, candidate, text.length), null, 2) + '\n');
+      io.stdout(JSON.stringify({ input, format: read.format, out, ...summariseHistoryFit(result, candidate, text.length) }, null, 2) + '\n');
       return 0;
     }
     const s = result.summary;

@@ -48,7 +48,7 @@ describe('fitRouteHistory on generated data with known parameters', () => {
     expect(result.arrival.qq.length).toBeGreaterThan(5);
   });
 
-  it('recovers every route\'s location and scale, and P(arrival delay > t) within 0.01 of the truth', () => {
+  it('recovers every route\'s location and scale, and P(arrival delay > t) within 0.02 of the truth', () => {
     const source = createBundleSource(result.bundle, { drawCount: 60, isKnownAirport: () => true });
     for (const r of routes) {
       const posterior = source.route(r.origin, r.destination, 'arrival');
@@ -67,7 +67,8 @@ describe('fitRouteHistory on generated data with known parameters', () => {
         for (let s = 0; s < posterior.drawCount; s++) p += posterior.draw(s).survival(t + 0.5);
         p /= posterior.drawCount;
         const truth = trueSurvival(r, t + 0.5);
-        if (Math.abs(p - truth) > 0.01) throw new Error(`${r.origin}-${r.destination} t=${t}: fitted ${p}, truth ${truth}, tolerance 0.01`);
+        // About 6,500 flights per route: the sampling sd of an exceedance near 0.5 is 0.006, so 0.02 is over 3 sd.
+        if (Math.abs(p - truth) > 0.02) throw new Error(`${r.origin}-${r.destination} t=${t}: fitted ${p}, truth ${truth}, tolerance 0.02`);
       }
     }
   });
