@@ -2,7 +2,8 @@
 import type { CliCommand } from './command';
 import { fitCommand } from './commands/fit';
 import { parseCommand } from './commands/parse';
-import { scoreCommand } from './commands/score';
 import { predictCommand } from './commands/predict';
+import { reportCommand } from './commands/report';
+import { scoreCommand } from './commands/score';
 
-export const commands: readonly CliCommand[] = [fitCommand, parseCommand, predictCommand, scoreCommand];
+export const commands: readonly CliCommand[] = [fitCommand, parseCommand, scoreCommand, reportCommand, predictCommand];
