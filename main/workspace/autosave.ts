@@ -2,7 +2,7 @@
 // few seconds after each change, and removed when the user saves or closes cleanly. A
 // recovery file still present at the next start means the last session ended with
 // unsaved work, which is then offered back.
-import { mkdir, readFile, rm } from 'node:fs/promises';
+import { mkdir, readFile, rename, rm } from 'node:fs/promises';
 import path from 'node:path';
 import * as v from 'valibot';
 import { WorkspaceContentSchema, type WorkspaceContent } from '../../shared/workspace/format';
@@ -33,8 +33,23 @@ export class AutosaveStore {
     await writeFileAtomic(this.file, JSON.stringify(record) + '\n');
   }
 
-  /** What the last session left behind. A damaged recovery file is reported and left in place. */
+  /**
+   * What the last session left behind. A damaged recovery file is moved aside to
+   * `recovery.damaged-<time>.json` (so the next autosave cannot overwrite it) and reported.
+   */
   async read(): Promise<RecoveryRead> {
+    const found = await this.readInPlace();
+    if (found.kind !== 'unreadable') return found;
+    const aside = this.file.replace(/\.json$/, `.damaged-${Date.now()}.json`);
+    try {
+      await rename(this.file, aside);
+      return { ...found, file: aside };
+    } catch {
+      return found;
+    }
+  }
+
+  private async readInPlace(): Promise<RecoveryRead> {
     let text: string;
     try {
       text = await readFile(this.file, 'utf8');

@@ -84,7 +84,8 @@ export function App({ api }: { api: LaylineApi }) {
       const left = appInfo.runtime === 'electron' ? await api.takeRecovery().catch(() => null) : readPageAutosave();
       if (left) setRecovery({ savedAt: left.savedAt, content: left.content });
       else if (isFirstStart()) {
-        setDoc(openDocument(DEMO_WORKSPACE, null, EMPTY_WORKSPACE));
+        // The demo counts as saved: closing it unchanged asks nothing.
+        setDoc(openDocument(DEMO_WORKSPACE, null));
         setTab('trips');
       }
     })();

@@ -31,13 +31,17 @@ describe('AutosaveStore', () => {
     await expect(new AutosaveStore(dir).read()).resolves.toEqual({ kind: 'none' });
   });
 
-  it('reports a damaged recovery file and leaves it in place', async () => {
+  it('reports a damaged recovery file and moves it aside, so the next autosave cannot overwrite it', async () => {
     const store = new AutosaveStore(dir);
     await store.write(EMPTY_WORKSPACE, null, new Date());
     await writeFile(store.file, '{"format":"layline-recovery", "trunc');
     const read = await store.read();
     expect(read.kind).toBe('unreadable');
-    expect(await readFile(store.file, 'utf8')).toContain('trunc');
+    if (read.kind !== 'unreadable') return;
+    expect(read.file).toMatch(/recovery\.damaged-\d+\.json$/);
+    expect(await readFile(read.file, 'utf8')).toContain('trunc');
+    await store.write(EMPTY_WORKSPACE, null, new Date());
+    expect(await readFile(read.file, 'utf8')).toContain('trunc');
   });
 });
 
