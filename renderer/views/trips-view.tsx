@@ -209,7 +209,7 @@ export function TripsView({ analysis, filter, sort, target, selection, onFilter,
                         {trip.optionCount > 1 && trip.paretoOptimal && <span class="badge"> not beaten</span>}
                       </span>
                     </th>
-                    <td colSpan={6}>
+                    <td colSpan={detail ? 5 : 6}>
                       <LegsCell trip={trip} />
                       <span class="trip-facts">
                         {trip.connections.length > 0 && (
