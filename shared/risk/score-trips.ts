@@ -116,6 +116,7 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     return pair;
   };
   const minLayovers = new Map<string, number | null>();
+  const makeSummaries = new Map<string, { pMake: number; interval: [number, number] }>();
 
   const unknownCountry = new Set<string>();
   const countryOf = (code: string): string => {
@@ -175,8 +176,15 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       const pair = pairOf(inbound, outbound);
       const slack = c.layoverMinutes - mct.mctMinutes;
       const byDraw = pair.drawProbabilities(slack);
+      // Travellers on the same flights share a connection: its summary is worked out once.
+      const summaryKey = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}@${slack}`;
+      let summary = makeSummaries.get(summaryKey);
+      if (!summary) {
+        summary = { pMake: mean(byDraw), interval: centralInterval(byDraw, settings.intervalLevel) };
+        makeSummaries.set(summaryKey, summary);
+      }
       for (let t = 0; t < draws; t++) allByDraw[t] = (allByDraw[t] ?? 0) * (byDraw[t] ?? 0);
-      const pMake = mean(byDraw);
+      const pMake = summary.pMake;
       const minKey = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}@${mct.mctMinutes}`;
       let minLayover = minLayovers.get(minKey);
       if (minLayover === undefined) {
@@ -194,7 +202,7 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
         ...base,
         scored: true,
         pMake,
-        pMakeInterval: centralInterval(byDraw, settings.intervalLevel),
+        pMakeInterval: summary.interval,
         minLayoverMinutes: minLayover,
         marginMinutes: minLayover === null ? null : c.layoverMinutes - minLayover,
         flags,

@@ -42,8 +42,8 @@ describe('drawMakeProbability', () => {
     { muA: -3, muD: 8, beta: 6 },
     { muA: 0, muD: 0, beta: 40 },
   ])('matches the logistic closed form for Gumbel(%o) inbound and outbound (@stdlib/stats-base-dists-logistic)', ({ muA, muD, beta }) => {
-    const arr = new DrawTable(gumbelDelay(muA, beta), "cdf");
-    const dep = new DrawTable(gumbelDelay(muD, beta), "density");
+    const arr = new DrawTable(gumbelDelay(muA, beta), 'cdf');
+    const dep = new DrawTable(gumbelDelay(muD, beta), 'density');
     for (const m of [-60, -20, -5, 0, 3, 15, 30, 60, 120, 300]) {
       const expected = logistic.cdf(m, muA - muD, beta);
       closeTo(drawMakeProbability(arr, dep, m), expected, 2e-5, `m=${m}, muA=${muA}, muD=${muD}, beta=${beta}`);
