@@ -3,7 +3,7 @@
 //
 // Written for a reader with two minutes and no statistics: natural frequencies beside every
 // percentage, and each finding paired with the change that would reach the target.
-import type { RouteEvidence, ScoredConnection, ScoredTrip, ScoredTrips } from '../risk/types';
+import { RISK_CAUTION, type RouteEvidence, type ScoredConnection, type ScoredTrip, type ScoredTrips } from '../risk/types';
 import { flagsPhrase } from './flag-words';
 import { formatMinutes, formatPercent, formatPercentRange, formatSignedMinutes } from './format';
 import { missFrequency, naturalFrequency } from './natural-frequency';
@@ -376,7 +376,8 @@ function cautions(scored: ScoredTrips): string[] {
   const list = [...REPORT_CAUTIONS];
   const pooled = scored.trips.some((t) => t.connections.some((c) => c.flags.includes('pooled-route')));
   if (pooled) list.push('Where a route had no flights of its own in the data, its estimate is pooled from similar routes and is less certain: its interval is wider.');
-  if (scored.caution && !list.includes(scored.caution)) list.push(scored.caution);
+  // The engine's standard caution says what the first and third cautions say; a different one is added.
+  if (scored.caution && scored.caution !== RISK_CAUTION && !list.includes(scored.caution)) list.push(scored.caution);
   return list;
 }
 

@@ -116,7 +116,7 @@ function managerBody(r: ManagerReport): string {
   parts.push('</section>');
   if (r.problems.length > 0) {
     parts.push(
-      `<section aria-label="Input problems"><h2>Input problems</h2><p>These lines of the input were read with problems; fix them and score again.</p>` +
+      `<section aria-label="Input problems"><h2>Input problems</h2><p>What reading the trips file noticed, by line. Lines with an error were not scored; warnings are worth a look.</p>` +
         `<ul class="problems">${r.problems.map((p) => `<li>${p.line > 0 ? `line ${p.line}` : 'input'}, ${e(p.severity)}: ${e(p.message)}</li>`).join('')}</ul></section>`,
     );
   }

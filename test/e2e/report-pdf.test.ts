@@ -3,9 +3,9 @@
 // poppler-utils (pdfinfo, pdftotext, pdftoppm), an outside PDF reader, against the numbers
 // `layline score` prints for the same input and seed.
 //
-// The commands run in-process with the risk tests' synthetic posterior source (the app's
-// bundled posteriors are not in this build yet); the built binary is checked for what does
-// not need posteriors.
+// The commands run in-process on the bundled posteriors (shared/data/route-posteriors.json),
+// with the real file system and Chromium; the built binary is checked for its help and for
+// the missing-browser error.
 import { execFile } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -18,10 +18,10 @@ import { createScoreCommand } from '../../main/cli/commands/score';
 import type { CliIo } from '../../main/cli/io';
 import { nodeIo } from '../../main/cli/node-io';
 import { runCli } from '../../main/cli/run';
+import { loadDefaultPosteriorSource } from '../../shared/delay/bundle/default-bundle';
 import { DEMO_ORGANISATION, DEMO_TRIPS_TEXT } from '../../shared/demo/demo-workspace';
 import { connectionFromCsvRecord } from '../../shared/report/connections-csv';
 import { formatPercent } from '../../shared/report/format';
-import { syntheticSource } from '../fixtures/risk/synthetic-source';
 import { artifactsDir, repoRoot } from './harness';
 
 const exec = promisify(execFile);
@@ -31,7 +31,7 @@ const trips = path.join(work, 'demo-trips.csv');
 const SEED = ['--seed', '11', '--simulations', '1000'];
 const ENV = { ...process.env, SOURCE_DATE_EPOCH: '1772355600' };
 
-const source = async () => syntheticSource({ draws: 32, seed: 3 });
+const source = async () => loadDefaultPosteriorSource();
 const commands = [createScoreCommand(source), createReportCommand(source)];
 
 /** Runs a command in-process with the real file system, as the binary would. */
@@ -104,6 +104,8 @@ describe('layline report (PDF, demo workspace)', () => {
     expect(text).toContain('These are estimates from historical delay data, not a guarantee.');
     expect(text).toContain('Separate tickets are not protected.');
     expect(text).toMatch(/Page 1 of \d+/);
+    const meta = loadDefaultPosteriorSource().bundle.metadata;
+    expect(text).toContain(`Flights dated ${meta.dateRange.first} to ${meta.dateRange.last}`);
 
     const png = await firstPagePng(pdf, 'report-manager-page1');
     expect(readFileSync(png).subarray(1, 4).toString()).toBe('PNG');

@@ -109,6 +109,12 @@ describe('buildManagerReport', () => {
     expect(all).toMatch(/pooled from similar routes/);
   });
 
+  it("does not repeat the engine's standard caution, but keeps a different one", () => {
+    expect(report.cautions).toHaveLength(REPORT_CAUTIONS.length + 1);
+    const custom = buildManagerReport({ ...sampleScoredTrips(), caution: 'Scored against a test bundle.' }, OPTIONS);
+    expect(custom.cautions[custom.cautions.length - 1]).toBe('Scored against a test bundle.');
+  });
+
   it('keeps the input problems so nothing is lost', () => {
     expect(report.problems).toEqual([{ line: 14, severity: 'warning', code: 'unknown-column', message: "column 'seat' was ignored" }]);
   });
