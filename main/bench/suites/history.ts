@@ -3,30 +3,18 @@
 //
 // The input is generated into a temporary folder in the BTS prezipped column layout
 // (main/history/synthetic-history.ts); generating it is not timed.
-import { existsSync, readFileSync } from 'node:fs';
 import { mkdtemp, rm, stat } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
-import { validateBundle } from '../../../shared/delay/bundle/bundle-schema';
-import type { Candidate } from '../../../shared/delay/bundle/fit-bundle';
 import { dayNumber } from '../../../shared/history/cells';
-import { candidateFromBundle, fitRouteHistory } from '../../../shared/history/history-fit';
+import { defaultHistoryCandidate } from '../../../shared/history/default-candidate';
+import { fitRouteHistory } from '../../../shared/history/history-fit';
 import { readHistoryFile } from '../../history/read-history-file';
 import { writeSyntheticBtsCsv } from '../../history/synthetic-history';
 import { writeFileAtomic } from '../../workspace/atomic-write';
 import type { BenchRow, BenchSuite } from '../suite';
 
 const ROWS = 1_000_000;
-
-/** The default bundle's model choice when the committed bundle is there, else the issue 8 mixture. */
-function benchCandidate(): { candidate: Candidate; from: string } {
-  const file = path.resolve('shared/data/route-posteriors.json');
-  if (existsSync(file)) return { candidate: candidateFromBundle(validateBundle(JSON.parse(readFileSync(file, 'utf8')))), from: 'default bundle' };
-  return {
-    candidate: { name: 'gumbel-gumbel', family: 'gumbel-gumbel', monthEffects: [], description: 'typical plus disrupted Gumbel per route' },
-    from: 'no default bundle yet: gumbel-gumbel',
-  };
-}
 
 export const historySuite: BenchSuite = {
   name: 'history',
@@ -43,7 +31,8 @@ export const historySuite: BenchSuite = {
       const readMs = performance.now() - readStart;
       log(`import: ${readMs.toFixed(0)} ms, ${read.table.summary.flights} flights, ${read.table.summary.cancelled} cancelled, ${read.table.summary.diverted} diverted; rss ${(process.memoryUsage().rss / 1e6).toFixed(0)} MB`);
 
-      const { candidate, from } = benchCandidate();
+      const candidate = defaultHistoryCandidate();
+      const from = 'the default bundle\'s model';
       const out = path.join(dir, 'bundle.json');
       const start = performance.now();
       const again = await readHistoryFile(input);

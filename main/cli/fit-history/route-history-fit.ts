@@ -9,6 +9,7 @@ import { validateBundle, type PosteriorBundle } from '../../../shared/delay/bund
 import { createBundleSource } from '../../../shared/delay/bundle/posterior-source';
 import { HISTORY_FIELDS, type ColumnOverrides, type HistoryField } from '../../../shared/history/columns';
 import { candidateFromBundle, fitRouteHistory, HISTORY_FIT_METHODS, type HistoryFitMethod, type KindEvaluation } from '../../../shared/history/history-fit';
+import { defaultBundle } from '../../../shared/history/default-candidate';
 import { summariseHistoryFit } from '../../../shared/history/history-fit-summary';
 import { HoldoutError, parseHoldoutAfter } from '../../../shared/history/holdout';
 import { FitAbortedError, FitDivergedError } from '../../../shared/inference/fit-types';
@@ -168,7 +169,8 @@ export async function runRouteHistoryFit(argv: string[], io: CliIo, deps: RouteH
   const out = path.resolve(io.cwd, values.out);
   await checkWritableTarget(out);
 
-  const like = values.like !== undefined ? await readBundleFile(path.resolve(io.cwd, values.like), '--like') : ((await deps.defaultBundle?.()) ?? null);
+  const loadDefault = deps.defaultBundle ?? (async () => defaultBundle());
+  const like = values.like !== undefined ? await readBundleFile(path.resolve(io.cwd, values.like), '--like') : await loadDefault();
   if (!like) throw new CliFailure('fit: no default bundle is available to take the model from; name one with --like BUNDLE');
   const candidate = candidateFromBundle(like);
   const baselineBundle = values.baseline !== undefined ? await readBundleFile(path.resolve(io.cwd, values.baseline), '--baseline') : null;

@@ -85,6 +85,16 @@ describe('layline fit <history> --model route', () => {
     expect(await leftovers()).toEqual([]);
   }, 60_000);
 
+  it('refits the model choice of the default bundle when --like is absent', async () => {
+    const out = path.join(dir, 'default-model.json');
+    const io = captureIo();
+    expect(await runRouteHistoryFit([history, '--model', 'route', '--out', out, '--json', '--max-iterations', '300'], io)).toBe(0);
+    const summary = JSON.parse(io.out.join(''));
+    const shipped = JSON.parse(await readFile(path.resolve(__dirname, '../../../../shared/data/route-posteriors.json'), 'utf8'));
+    expect(summary.family).toBe(`${shipped.model.family}${shipped.model.monthEffects.length ? '+month' : ''}`);
+    expect(validateBundle(JSON.parse(await readFile(out, 'utf8'))).model).toEqual(shipped.model);
+  }, 120_000);
+
   it('honours --holdout-after and prints tables without --json', async () => {
     const out = path.join(dir, 'fitted-text.json');
     const io = captureIo();
@@ -143,6 +153,6 @@ describe('layline fit <history> --model route', () => {
   });
 
   it('asks for --like when no default bundle is available', async () => {
-    await expect(runRouteHistoryFit([history, '--model', 'route', '--out', path.join(dir, 'b.json')], captureIo())).rejects.toThrow(/--like BUNDLE/);
+    await expect(runRouteHistoryFit([history, '--model', 'route', '--out', path.join(dir, 'b.json')], captureIo(), { defaultBundle: async () => null })).rejects.toThrow(/--like BUNDLE/);
   });
 });
