@@ -1,7 +1,7 @@
 // One connection in depth: the plain sentence, what data stands behind it, and two charts
 // (P(make) against layover with its band; the predictive distribution of the margin).
 import type { ComponentChildren } from 'preact';
-import { useMemo } from 'preact/hooks';
+import { useMemo, useState } from 'preact/hooks';
 import type { ConnectionCurve, ConnectionView, TripView } from '../../shared/api/analysis-schema';
 import { makeCurveConfig, marginConfig, type ChartColors } from '../charts/chart-configs';
 import { ChartCanvas } from '../charts/chart-canvas';
@@ -20,6 +20,33 @@ export interface ConnectionDetailProps {
   readonly onClose: () => void;
 }
 
+/** The curve's point nearest to a layover. */
+export function pointAt(curve: ConnectionCurve, layoverMinutes: number): ConnectionCurve['points'][number] | undefined {
+  let best = curve.points[0];
+  for (const p of curve.points) if (best && Math.abs(p.layoverMinutes - layoverMinutes) < Math.abs(best.layoverMinutes - layoverMinutes)) best = p;
+  return best;
+}
+
+/** "What if the layover were longer?": reads P(make) off the curve for a layover the user picks. */
+function WhatIf({ curve, intervalPercent }: { curve: ConnectionCurve; intervalPercent: number }) {
+  const [layover, setLayover] = useState(curve.layoverMinutes);
+  const first = curve.points[0]?.layoverMinutes ?? 0;
+  const last = curve.points[curve.points.length - 1]?.layoverMinutes ?? first;
+  const point = pointAt(curve, layover);
+  if (!point) return null;
+  return (
+    <div class="what-if">
+      <label>
+        Try another layover: <strong>{duration(point.layoverMinutes)}</strong>
+        <input type="range" min={first} max={last} step={1} value={layover} onInput={(e) => setLayover(Number((e.currentTarget as HTMLInputElement).value))} />
+      </label>
+      <p data-testid="what-if">
+        With {point.layoverMinutes} minutes: {percent(point.p)} chance of making it ({intervalPercent}% credible interval {percentRange(point.lo, point.hi)}). {missSentence(point.p)}
+      </p>
+    </div>
+  );
+}
+
 function Charts({ curve, colors, intervalPercent }: { curve: ConnectionCurve; colors: ChartColors; intervalPercent: number }) {
   const makeConfig = useMemo(() => makeCurveConfig(curve, colors, intervalPercent), [curve, colors, intervalPercent]);
   const marginChart = useMemo(() => marginConfig(curve, colors), [curve, colors]);
@@ -34,6 +61,7 @@ function Charts({ curve, colors, intervalPercent }: { curve: ConnectionCurve; co
           description={`P(make) rises from ${percent(curve.points[0]?.p ?? null)} at ${curve.points[0]?.layoverMinutes ?? 0} minutes to ${percent(curve.points[curve.points.length - 1]?.p ?? null)} at ${curve.points[curve.points.length - 1]?.layoverMinutes ?? 0} minutes; this layover is ${curve.layoverMinutes} minutes${curve.minLayoverMinutes !== null ? `, the target needs ${curve.minLayoverMinutes}` : ''}.`}
         />
       </figure>
+      <WhatIf key={`${curve.tripId}/${curve.connectionIndex}/${curve.layoverMinutes}`} curve={curve} intervalPercent={intervalPercent} />
       <figure>
         <figcaption>How much time is left over at the gate (margin)</figcaption>
         <ChartCanvas config={marginChart} testId="margin-chart" description={`Distribution of the margin in ${curve.binMinutes}-minute bars; about ${percent(pMiss)} of it lies below zero (a missed connection).`} />

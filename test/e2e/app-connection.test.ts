@@ -29,6 +29,15 @@ describe('connections', () => {
     await expect(page.getByTestId('miss-sentence').textContent()).resolves.toMatch(/^(About|Fewer than|More than) [\d,]+ in [\d,]+ travelers on this connection would miss it\.$/);
     expect(await paintedPixels(page, 'make-curve-chart')).toBeGreaterThan(2000);
     expect(await paintedPixels(page, 'margin-chart')).toBeGreaterThan(2000);
+    // A longer layover, read off the curve, is at least as likely to be made.
+    const before = await page.getByTestId('what-if').textContent();
+    const slider = page.getByRole('slider', { name: /Try another layover/ });
+    await slider.focus();
+    for (let i = 0; i < 30; i++) await page.keyboard.press('ArrowRight');
+    const after = await page.getByTestId('what-if').textContent();
+    const pct = (s: string | null) => Number(/: (\d+)% chance/.exec(s ?? '')?.[1]);
+    expect(after).toMatch(/^With 75 minutes/);
+    expect(pct(after)).toBeGreaterThanOrEqual(pct(before));
     await harness.screenshot(page, 'app-connection-detail');
     await page.getByTestId('margin-chart').scrollIntoViewIfNeeded();
     await detail.screenshot({ path: path.join(artifactsDir, 'app-connection-charts.png') });
