@@ -127,4 +127,20 @@ describe('layline score', () => {
     expect(code).toBe(1);
     expect(io.err.join('')).toMatch(/bad posterior bundle bad\.json/);
   });
+
+  it('scores against the bundled posteriors by default (BTS on-time sample), with their provenance', async () => {
+    const io = captureIo({ 'trips.csv': tripsCsv });
+    const code = await runCli(['score', 'trips.csv', '--format', 'json'], io, [scoreCommand]);
+    expect(code).toBe(0);
+    const json = JSON.parse(io.out.join(''));
+    expect(json.bundle.id).toMatch(/\S/);
+    const ordDen = json.trips[0].connections[0];
+    // ORD-DEN and DEN-SFO were flown in the 2001 sample, so these are route-level posteriors.
+    expect(ordDen.inbound.pooling).toBe('route');
+    expect(ordDen.inbound.flights).toBeGreaterThan(100);
+    expect(ordDen.pMake).toBeGreaterThan(0.3);
+    expect(ordDen.pMake).toBeLessThan(1);
+    expect(ordDen.pMakeInterval[0]).toBeLessThan(ordDen.pMake);
+    expect(ordDen.pMakeInterval[1]).toBeGreaterThan(ordDen.pMake);
+  });
 });
