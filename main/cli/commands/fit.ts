@@ -113,6 +113,7 @@ export const fitCommand: CliCommand = {
     }
     const summaryRng = createRng(seed).split();
     const fitDiagnostics = methodDiagnostics(prepared.model, result, summaryRng);
+    const summary = prepared.summarise(result, summaryRng);
     const warnings = fitWarnings(method, result.converged, fitDiagnostics);
     const diagnostics = {
       ...fitDiagnostics,
@@ -120,10 +121,10 @@ export const fitCommand: CliCommand = {
       observations: prepared.observations,
       model: adapter.name,
       ...prepared.modelDiagnostics,
+      ...summary.diagnostics,
       seed,
       ...(warnings.length > 0 ? { warnings: warnings.join('; ') } : {}),
     };
-    const summary = prepared.summarise(result, summaryRng);
     const elapsedMs = Math.round(result.elapsedMs);
 
     if (values.json) {

@@ -15,6 +15,8 @@ export interface FitSummary {
   readonly json: Readonly<Record<string, unknown>>;
   /** The human-readable table, ending in a newline. */
   readonly text: string;
+  /** Facts about the summary for the diagnostics (e.g. which draws it averaged). */
+  readonly diagnostics?: Readonly<Record<string, string | number | boolean>>;
 }
 
 export interface PreparedFit {

@@ -10,7 +10,7 @@ import { CliFailure, UsageError } from '../io';
 import { findColumn, numberCell, textCell } from './csv-columns';
 import { RunningMoments } from '../../../shared/inference/diagnostics/running-moments';
 import type { FitInput, FitModelAdapter, FlagValues, Moments, PreparedFit } from './fit-model';
-import { posteriorDraws } from './posterior-draws';
+import { posteriorDraws, type PosteriorDraws } from './posterior-draws';
 
 export interface GroupSummary {
   readonly group: string;
@@ -25,12 +25,21 @@ function formatMoments(m: Moments): string {
   return `${m.mean.toFixed(2).padStart(9)} ± ${m.sd.toFixed(2).padEnd(7)}`;
 }
 
+/** The hierarchy blocks that NUTS and the Laplace approximation treat in centred form. */
+function groupedCentredBlocks(model: HierarchicalDelayModel) {
+  const { layout } = model;
+  return groupHierarchyBlocks([layout.location, layout.logScale, layout.logitWeight], observationsPerGroup(model.data));
+}
+
 /**
  * Posterior mean and sd of each group's Gumbel location and scale, averaged over the fit's
  * draws. MAP reports the mode itself as the mean, with sds from its Laplace draws.
  */
 export function groupPosteriorMoments(model: HierarchicalDelayModel, result: FitResult, rng: Rng): { location: Moments; scale: Moments }[] {
-  const { draws, count } = posteriorDraws(result, rng);
+  return momentsFromDraws(model, result, posteriorDraws(model, result, rng, groupedCentredBlocks(model)));
+}
+
+function momentsFromDraws(model: HierarchicalDelayModel, result: FitResult, { draws, count }: PosteriorDraws): { location: Moments; scale: Moments }[] {
   const groupCount = model.groupCount;
   const acc = new RunningMoments(2 * groupCount);
   const theta = new Float64Array(model.dim);
@@ -86,21 +95,22 @@ async function prepare(input: FitInput, flags: FlagValues): Promise<PreparedFit>
   if (likelihood !== 'point' && likelihood !== 'interval') throw new UsageError(`fit: --likelihood must be point or interval, got '${likelihood}'`);
   // Values rounded to the minute stand for the interval (v - 0.5, v + 0.5].
   const model = createGroupedModel(collapseWeighted(group, value, labels.length), { intervalHalfWidth: likelihood === 'interval' ? 0.5 : 0 });
-  const { layout } = model;
+  const centredBlocks = groupedCentredBlocks(model);
   return {
     model,
     observations: n,
     modelDiagnostics: { groups: labels.length, likelihood: likelihood === 'interval' ? 'interval (rounded to the minute)' : 'point' },
-    nutsCentredBlocks: groupHierarchyBlocks([layout.location, layout.logScale, layout.logitWeight], observationsPerGroup(model.data)),
+    nutsCentredBlocks: centredBlocks,
     summarise(result: FitResult, rng: Rng) {
-      const moments = groupPosteriorMoments(model, result, rng);
+      const source = posteriorDraws(model, result, rng, centredBlocks);
+      const moments = momentsFromDraws(model, result, source);
       const groups: GroupSummary[] = labels.map((label, g) => ({ group: label, ...moments[g]! }));
       const width = Math.max(5, ...labels.map((l) => l.length));
       const lines = [
         `${'group'.padEnd(width)}  ${'location (min)'.padStart(19)}  ${'scale (min)'.padStart(19)}`,
         ...groups.map((s) => `${s.group.padEnd(width)}  ${formatMoments(s.location)}  ${formatMoments(s.scale)}`),
       ];
-      return { json: { groups }, text: lines.join('\n') + '\n' };
+      return { json: { groups }, text: lines.join('\n') + '\n', diagnostics: { summaryDraws: source.source } };
     },
   };
 }

@@ -108,6 +108,25 @@ describe('layline fit', () => {
     expect((JSON.parse(json.out()) as FitJson).diagnostics['warnings']).toMatch(/effective sample size/);
   });
 
+  it("gives MAP sds from the full Laplace approximation that match NUTS's posterior sds", async () => {
+    const fit = async (method: string) => {
+      const cli = io();
+      expect(await runCli(['fit', dataFile, '--model', 'grouped', '--method', method, '--chains', '2', '--warmup', '300', '--draws', '500', '--json'], cli), cli.err()).toBe(0);
+      return JSON.parse(cli.out()) as FitJson;
+    };
+    const map = await fit('map');
+    const nuts = await fit('nuts');
+    expect(map.diagnostics['summaryDraws']).toMatch(/Laplace approximation \(full Hessian\)/);
+    expect(nuts.diagnostics['summaryDraws']).toBe('all kept NUTS draws');
+    map.groups.forEach((g, i) => {
+      const n = nuts.groups[i]!;
+      for (const ratio of [g.location.sd / n.location.sd, g.scale.sd / n.scale.sd]) {
+        expect(ratio, `${g.group}: MAP sd / NUTS sd`).toBeGreaterThan(0.7);
+        expect(ratio).toBeLessThan(1.4);
+      }
+    });
+  });
+
   it('is reproducible from --seed', async () => {
     const run = async (seed: string) => {
       const cli = io();
