@@ -6,12 +6,14 @@
 import { gumbelDistribution } from '../../../shared/delay/gumbel';
 import { mixtureDistribution } from '../../../shared/delay/mixture';
 import type { DelayDistribution, DelayKind, PosteriorSource, RoutePosterior } from '../../../shared/delay/predictive';
+import { loadDefaultPosteriorSource } from '../../../shared/delay/bundle/default-bundle';
 import { createRng } from '../../../shared/inference/rng';
 import type { Leg, ParsedTrips, Trip } from '../../../shared/itinerary/types';
 import { ConnectionPair, minimumLayover } from '../../../shared/risk/connection-probability';
 import { RouteTables } from '../../../shared/risk/delay-table';
 import { hashKey } from '../../../shared/risk/trip-simulation';
 import { MAX_JOINT_DRAWS, scoreTrips } from '../../../shared/risk/score-trips';
+import { findAirport } from '../../../shared/time/airports';
 import { timeMedian, type BenchSuite } from '../suite';
 
 const DRAWS = 100;
@@ -91,8 +93,7 @@ export function benchTrips(travelers = 1000): ParsedTrips {
   return { format: 'csv', trips, problems: [] };
 }
 
-const COUNTRIES: Record<string, string> = { LHR: 'GB', CDG: 'FR', FRA: 'DE', AMS: 'NL', LIS: 'PT' };
-const countryOf = (code: string) => COUNTRIES[code] ?? 'US';
+const countryOf = (code: string) => findAirport(code)?.country;
 
 export const riskSuite: BenchSuite = {
   name: 'risk',
@@ -112,6 +113,21 @@ export const riskSuite: BenchSuite = {
     const cpu = process.cpuUsage(cpuBefore);
     const groupCpuMs = (cpu.user + cpu.system) / 1000 / groupRuns;
     log(summary);
+
+    // The same group against the bundled posteriors (Gumbel + Lomax tails): route draws are
+    // made once by the source, the tables again in every run.
+    const bundled = loadDefaultPosteriorSource();
+    let bundledSummary = '';
+    const bundledCpuBefore = process.cpuUsage();
+    let bundledRuns = 0;
+    const bundledMs = await timeMedian(() => {
+      bundledRuns++;
+      const scored = scoreTrips(parsed, bundled, { countryOf, seed: 1 });
+      bundledSummary = `${bundled.info.id}: expected misconnecting ${scored.group.expectedMisconnecting.toFixed(1)}`;
+    }, 5);
+    const bundledCpu = process.cpuUsage(bundledCpuBefore);
+    const bundledCpuMs = (bundledCpu.user + bundledCpu.system) / 1000 / bundledRuns;
+    log(bundledSummary);
 
     // Minimum layover of one connection, on route tables already built (once per route per run).
     const source = benchSource();
@@ -143,6 +159,7 @@ export const riskSuite: BenchSuite = {
     }, 5);
     return [
       { name: '1,000 travellers x 3 connections, intervals + group', ms: groupMs, targetMs: 200, notes: `${summary}; CPU ${groupCpuMs.toFixed(0)} ms per run` },
+      { name: '1,000 travellers x 3 connections, bundled posteriors', ms: bundledMs, targetMs: 200, notes: `${bundledSummary}; CPU ${bundledCpuMs.toFixed(0)} ms per run` },
       { name: 'minimum layover, one connection (routes tabulated)', ms: searchMs, targetMs: 1, notes: `median of ${searches.length} searches, ${MAX_JOINT_DRAWS} joint draws` },
       { name: 'tabulate one route (all joint draws)', ms: tabulateMs, notes: 'once per route and kind per scoring run' },
     ];
