@@ -6,6 +6,7 @@ import { isAllowedExternal } from './external-links';
 export { isAllowedExternal } from './external-links';
 
 export function hardenWebContents(contents: Pick<WebContents, 'on' | 'setWindowOpenHandler'>): void {
+  // The page is a single-page app loaded once; any navigation is an attack or a stray link.
   contents.on('will-navigate', (event) => event.preventDefault());
   contents.on('will-redirect', (event) => event.preventDefault());
   contents.on('will-attach-webview', (event) => event.preventDefault());

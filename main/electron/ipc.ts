@@ -10,7 +10,7 @@ import { serveRequest } from '../../shared/api/server';
 /** Decides whether a frame URL belongs to Layline's own renderer. */
 export type SenderCheck = (frameUrl: string) => boolean;
 
-/** Only our packaged page, loaded from the app's own file URL, may call the API. */
+/** Only our own page (its index URL, with at most a query or fragment) may call the API. */
 export function fileSenderCheck(rendererIndexUrl: string): SenderCheck {
   return (frameUrl) => {
     if (frameUrl === rendererIndexUrl) return true;

@@ -1,14 +1,14 @@
 // Electron main process: one secure window, the contract's handlers, the menu and the
 // workspace files. Logic lives in shared/ and in plain Node modules (main/workspace,
 // the shell handlers, the engine thread); this file only wires Electron to them.
-import { app, BrowserWindow, dialog, ipcMain, Menu, nativeTheme, screen, shell } from 'electron';
+import { app, BrowserWindow, dialog, ipcMain, Menu, nativeTheme, protocol, screen, shell } from 'electron';
 import path from 'node:path';
-import { pathToFileURL } from 'node:url';
 import { combineHandlers, createCoreHandlers } from '../../shared/api/handlers';
 import { WORKSPACE_EXTENSION } from '../../shared/workspace/format';
 import { fitToDisplays, WindowStateStore } from '../workspace/window-state';
 import { WorkspaceSession } from '../workspace/workspace-session';
 import { AppEventQueue } from './app-events';
+import { APP_INDEX_URL, APP_SCHEME, APP_SCHEME_PRIVILEGES, createAppProtocolHandler } from './app-protocol';
 import { CloseGuard } from './close-guard';
 import { createThreadEngine } from './engine-thread-client';
 import { hardenWebContents } from './harden';
@@ -17,10 +17,13 @@ import { buildMenuTemplate } from './menu';
 import { createShellHandlers } from './shell-handlers';
 import { mainWindowOptions } from './window-options';
 
-const rendererIndex = path.join(__dirname, '..', 'renderer', 'index.html');
+const rendererDir = path.join(__dirname, '..', 'renderer');
 const preloadPath = path.join(__dirname, 'preload.cjs');
 const engineThreadPath = path.join(__dirname, 'engine-thread.cjs');
 const isDevelopment = !app.isPackaged;
+
+// Must happen before the app is ready.
+protocol.registerSchemesAsPrivileged([{ scheme: APP_SCHEME, privileges: APP_SCHEME_PRIVILEGES }]);
 
 const events = new AppEventQueue();
 let mainWindow: BrowserWindow | null = null;
@@ -87,7 +90,7 @@ async function createWindow(windowState: WindowStateStore): Promise<BrowserWindo
     }
     void windowState.save({ ...win.getNormalBounds(), maximized: win.isMaximized() }).catch(() => undefined);
   });
-  void win.loadFile(rendererIndex);
+  void win.loadURL(APP_INDEX_URL);
   return win;
 }
 
@@ -99,6 +102,7 @@ function workspaceArgument(argv: readonly string[]): string | null {
 if (!app.requestSingleInstanceLock()) app.quit();
 
 app.whenReady().then(async () => {
+  protocol.handle(APP_SCHEME, createAppProtocolHandler(rendererDir));
   const dataDir = app.getPath('userData');
   const session = new WorkspaceSession(dataDir);
   const windowState = new WindowStateStore(dataDir);
@@ -148,7 +152,7 @@ app.whenReady().then(async () => {
       },
     }),
   );
-  registerApiHandlers(ipcMain, handlers, fileSenderCheck(pathToFileURL(rendererIndex).href));
+  registerApiHandlers(ipcMain, handlers, fileSenderCheck(APP_INDEX_URL));
   installMenu(await session.recent.list(), session);
   nativeTheme.on('updated', () => events.push({ kind: 'theme', dark: nativeTheme.shouldUseDarkColors }));
 

@@ -13,7 +13,8 @@ const { channelFor, requestNames } = await import('../../../shared/api/contract'
 const { DEFAULT_ANALYSIS_SETTINGS } = await import('../../../shared/workspace/settings');
 const { syntheticSource } = await import('../../fixtures/risk/synthetic-source');
 
-const INDEX = 'file:///opt/Layline/resources/app.asar/dist/renderer/index.html';
+const { APP_INDEX_URL } = await import('../../../main/electron/app-protocol');
+const INDEX = APP_INDEX_URL;
 type Listener = (event: { senderFrame: { url: string } | null }, ...args: unknown[]) => Promise<unknown>;
 
 function listenerFor(channel: string): Listener {
@@ -54,7 +55,8 @@ describe('registerApiHandlers', () => {
     const analyze = listenerFor(channelFor('analyzeTrips'));
     await expect(analyze({ senderFrame: { url: 'https://example.com/' } }, TRIPS, DEFAULT_ANALYSIS_SETTINGS)).rejects.toThrow(/untrusted sender/);
     await expect(analyze({ senderFrame: { url: INDEX + '.evil.html' } }, TRIPS, DEFAULT_ANALYSIS_SETTINGS)).rejects.toThrow(/untrusted sender/);
-    await expect(listenerFor(channelFor('saveWorkspace'))({ senderFrame: { url: 'file:///tmp/other/index.html' } })).rejects.toThrow(/untrusted sender/);
+    await expect(listenerFor(channelFor('saveWorkspace'))({ senderFrame: { url: 'file:///opt/Layline/resources/app.asar/dist/renderer/index.html' } })).rejects.toThrow(/untrusted sender/);
+    await expect(listenerFor(channelFor('saveWorkspace'))({ senderFrame: { url: 'layline-app://other/index.html' } })).rejects.toThrow(/untrusted sender/);
   });
 
   it('rejects a payload that does not match the schema', async () => {
