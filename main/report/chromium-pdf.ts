@@ -118,3 +118,12 @@ export async function printHtmlToPdf(html: string, options: PrintOptions): Promi
     await browser.close();
   }
 }
+
+/**
+ * The CLI's PDF printer (write-report.ts PdfPrinter): a Chromium the user has, looked up now,
+ * so a missing browser fails before any scoring with PdfPrinterMissingError.
+ */
+export function chromiumPrinter(lookup: ChromiumLookup = {}): (html: string, paper: PaperSize, title: string) => Promise<Buffer> {
+  const executablePath = findChromium(lookup);
+  return (html, paper, title) => printHtmlToPdf(html, { paper, title, executablePath });
+}

@@ -1,13 +1,13 @@
-// Writes a report file: HTML or CSV as text, PDF through a headless Chromium. The format
-// follows the file's extension. Writes go to a temporary file renamed into place, so an
-// interrupted export never leaves half a report where the old one was.
+// Writes a report file: HTML or CSV as text, PDF through the printer the caller passes
+// (chromiumPrinter in the CLI, printReportInElectron in the app), so the app never loads the
+// CLI's browser driver. The format follows the file's extension. Writes go to a temporary file
+// renamed into place, so an interrupted export never leaves half a report where the old one was.
 import { rename, rm, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { connectionsCsv, reportDocument, type ReportKind } from '../../shared/report/build-report';
 import type { PaperSize } from '../../shared/report/print-layout';
 import type { ReportOptions } from '../../shared/report/report-model';
 import type { ScoredTrips } from '../../shared/risk/types';
-import { findChromium, printHtmlToPdf } from './chromium-pdf';
 
 export type ReportFileFormat = 'pdf' | 'html' | 'csv';
 
@@ -20,11 +20,14 @@ export function reportFormatFor(outPath: string): ReportFileFormat | null {
   return null;
 }
 
+/** Prints standalone HTML to PDF bytes: printReportInElectron in the app, Chromium in the CLI. */
+export type PdfPrinter = (html: string, paper: PaperSize, title: string) => Promise<Uint8Array>;
+
 export interface WriteReportOptions {
   readonly kind: ReportKind;
   readonly paper: PaperSize;
-  /** An explicit Chromium for PDF output (--chromium); else found by findChromium. */
-  readonly chromiumPath?: string;
+  /** How to print PDF; needed only for a .pdf path. */
+  readonly printPdf?: PdfPrinter;
   readonly report: ReportOptions;
 }
 
@@ -53,9 +56,8 @@ export async function writeReport(scored: ScoredTrips, outPath: string, options:
     await writeAtomically(outPath, doc.html);
     return { format, bytes: Buffer.byteLength(doc.html) };
   }
-  // Find the browser before any work, so a missing one fails fast with its own message.
-  const executablePath = findChromium({ explicitPath: options.chromiumPath });
-  const pdf = await printHtmlToPdf(doc.html, { paper: options.paper, title: doc.title, executablePath });
+  if (!options.printPdf) throw new Error(`no PDF printer was given for ${outPath}`);
+  const pdf = await options.printPdf(doc.html, options.paper, doc.title);
   await writeAtomically(outPath, pdf);
   return { format, bytes: pdf.byteLength };
 }

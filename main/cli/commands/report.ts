@@ -6,8 +6,8 @@ import { REPORT_KINDS, type ReportKind } from '../../../shared/report/build-repo
 import { parsePaperSize } from '../../../shared/report/print-layout';
 import { bundleDetailsOf } from '../../../shared/report/bundle-details';
 import { RISK_CAUTION } from '../../../shared/risk/types';
-import { PdfPrinterMissingError, findChromium } from '../../report/chromium-pdf';
-import { reportFormatFor, writeReport } from '../../report/write-report';
+import { PdfPrinterMissingError, chromiumPrinter } from '../../report/chromium-pdf';
+import { reportFormatFor, writeReport, type PdfPrinter } from '../../report/write-report';
 import { parseFlags, type CliCommand } from '../command';
 import { CliFailure, UsageError, type CliIo } from '../io';
 import { SCORING_FLAGS, SCORING_FLAGS_USAGE, scoreInputWithFlags } from './score';
@@ -81,9 +81,9 @@ export function createReportCommand(loadSource: (bundlePath: string | undefined,
       if (paper === null) throw new UsageError(`report: --paper must be a4 or letter, got '${values.paper}'`);
       const generatedAt = reportDate(process.env, Date.now());
       // Find the printer before scoring, so a missing browser fails at once with its own message.
-      let chromiumPath: string | undefined;
+      let printPdf: PdfPrinter | undefined;
       try {
-        if (format === 'pdf') chromiumPath = findChromium({ explicitPath: values.chromium });
+        if (format === 'pdf') printPdf = chromiumPrinter({ explicitPath: values.chromium });
       } catch (err) {
         if (err instanceof PdfPrinterMissingError) throw new CliFailure(err.message);
         throw err;
@@ -96,7 +96,7 @@ export function createReportCommand(loadSource: (bundlePath: string | undefined,
         const written = await writeReport(scored, out, {
           kind,
           paper,
-          chromiumPath,
+          printPdf,
           report: { generatedAt, title: values.title, organisation: values.organisation, bundleDetails: source ? bundleDetailsOf(source) : undefined },
         });
         io.stderr(`wrote ${values.out} (${written.format.toUpperCase()}, ${written.bytes.toLocaleString('en-US')} bytes)\n${RISK_CAUTION}\n`);
