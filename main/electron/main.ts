@@ -99,9 +99,12 @@ function workspaceArgument(argv: readonly string[]): string | null {
   return argv.slice(1).find((a) => a.endsWith(`.${WORKSPACE_EXTENSION}`)) ?? null;
 }
 
-if (!app.requestSingleInstanceLock()) app.quit();
+// A second copy hands its file to the first (see 'second-instance') and quits.
+const isPrimary = app.requestSingleInstanceLock();
+if (!isPrimary) app.quit();
 
 app.whenReady().then(async () => {
+  if (!isPrimary) return;
   protocol.handle(APP_SCHEME, createAppProtocolHandler(rendererDir));
   const dataDir = app.getPath('userData');
   const session = new WorkspaceSession(dataDir);
