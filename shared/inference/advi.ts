@@ -27,5 +27,6 @@ export function fitFullRankAdvi(model: Model, options: AdviOptions): Promise<Fit
   if (model.dim > FULL_RANK_MAX_DIM) {
     return Promise.reject(new RangeError(`full-rank ADVI needs dim <= ${FULL_RANK_MAX_DIM} (this model has ${model.dim}); use mean-field ADVI`));
   }
-  return runVariational(model, options, { method: 'fullrank', family: fullRankFamily(model.dim), gradient: fullGradient(model) });
+  // Half ADVI's first step: dense factors on curved (hierarchical) posteriors wander at 0.1.
+  return runVariational(model, options, { method: 'fullrank', family: fullRankFamily(model.dim), gradient: fullGradient(model), defaults: { initialStep: 0.05 } });
 }

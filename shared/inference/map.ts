@@ -29,6 +29,8 @@ export interface LbfgsOutcome {
   readonly evaluations: number;
 }
 
+const STALL_WINDOW = 20;
+
 function dot(a: Float64Array, b: Float64Array): number {
   let s = 0;
   for (let i = 0; i < a.length; i++) s += a[i]! * b[i]!;
@@ -66,6 +68,16 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
   let stored = 0;
   let head = 0;
   let evaluations = 1;
+  const h0 = new Float64Array(n).fill(1);
+  const precondition = typeof model.curvatureDiagonal === 'function';
+  let lastGamma = 1;
+  const refreshPreconditioner = (at: Float64Array): void => {
+    model.curvatureDiagonal!(at, h0);
+    for (let i = 0; i < n; i++) {
+      const c = h0[i]!;
+      h0[i] = c > 0 && Number.isFinite(c) ? 1 / c : 1;
+    }
+  };
 
   // Work with f = -log p and its gradient.
   let f = -model.logDensityGrad(x, g);
@@ -77,6 +89,8 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
   let converged = false;
   let stopReason = 'iteration cap';
   let smallSteps = 0;
+  let lastGain = Infinity;
+  const history = new Float64Array(STALL_WINDOW);
   while (iter < maxIter) {
     await loop.tick(iter, -f);
     // Two-loop recursion: d = -H g.
@@ -88,14 +102,21 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
       const y = Y[j]!;
       for (let i = 0; i < n; i++) d[i]! -= a * y[i]!;
     }
+    // Initial inverse Hessian H0 = gamma * diag(h0): h0 from the model's curvature diagonal
+    // when it has one (refreshed every few iterations), scaled by the latest pair's s'y / y'H0y.
+    if (precondition && iter % 10 === 0) refreshPreconditioner(x);
     let gamma = 1;
     if (stored > 0) {
       const j = (head - 1 + m) % m;
-      gamma = 1 / (rho[j]! * dot(Y[j]!, Y[j]!));
-    } else {
+      const y = Y[j]!;
+      let yh = 0;
+      for (let i = 0; i < n; i++) yh += y[i]! * y[i]! * h0[i]!;
+      gamma = 1 / (rho[j]! * yh);
+    } else if (!precondition) {
       gamma = 1 / Math.max(1, maxAbs(g));
     }
-    for (let i = 0; i < n; i++) d[i]! *= gamma;
+    for (let i = 0; i < n; i++) d[i]! *= gamma * h0[i]!;
+    lastGamma = gamma;
     for (let k = stored - 1; k >= 0; k--) {
       const j = (head - 1 - k + m) % m;
       const b = rho[j]! * dot(Y[j]!, d);
@@ -111,8 +132,9 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
       for (let i = 0; i < n; i++) d[i] = -g[i]! * sc;
       slope = dot(g, d);
       if (!(slope < 0)) { converged = true; stopReason = 'zero gradient'; break; }
-    } else if (stored > 0 && -0.5 * slope < gainTol) {
-      // The quasi-Newton model predicts less than gainTol nats from a full step: at the mode.
+    } else if (stored > 0 && -0.5 * slope < gainTol && lastGain < 10 * gainTol) {
+      // The quasi-Newton model predicts less than gainTol nats from a full step, and the last
+      // step gained little too (a model built from few pairs can be badly wrong): at the mode.
       converged = true;
       stopReason = 'predicted gain below tolerance';
       break;
@@ -158,6 +180,7 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
       stored = Math.min(m, stored + 1);
     }
     const rel = Math.abs(f - fn) / Math.max(1, Math.abs(f), Math.abs(fn));
+    lastGain = f - fn;
     x.set(xn);
     g.set(gn);
     f = fn;
@@ -165,6 +188,14 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
     // Changes at rounding level for two steps running: nothing more to gain in float64.
     smallSteps = rel < 1e-14 ? smallSteps + 1 : 0;
     if (smallSteps >= 2) { converged = true; stopReason = 'relative change at rounding level'; break; }
+    // Stalled: over the last STALL_WINDOW iterations the log density rose by less than
+    // STALL_WINDOW * tolerance nats or 1e-9 relative (large hierarchical models creep for
+    // hundreds of iterations along nearly flat directions long after the fit is useful).
+    history[iter % STALL_WINDOW] = f;
+    if (iter >= STALL_WINDOW) {
+      const before = history[(iter + 1) % STALL_WINDOW]!;
+      if (before - f < Math.max(STALL_WINDOW * gainTol, 1e-9 * Math.abs(f))) { converged = true; stopReason = 'stalled: negligible gain over the last iterations'; break; }
+    }
     if (maxAbs(g) < 1e-9) { converged = true; stopReason = 'zero gradient'; break; }
   }
   return {
@@ -174,7 +205,7 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
     converged,
     stopReason,
     gradientMaxAbs: maxAbs(g),
-    inverseHessianDiagonal: compactInverseHessianDiagonal(S, Y, rho, head, stored, n),
+    inverseHessianDiagonal: compactInverseHessianDiagonal(S, Y, rho, head, stored, n, h0, lastGamma),
     evaluations,
   };
 }
@@ -183,22 +214,25 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
  * diag(H) of the L-BFGS inverse Hessian in compact form, H = γI + W M Wᵀ with W = [S, γY]
  * (Nocedal & Wright eq. 7.24): O(n m²), never forming H. Without stored pairs, NaN.
  */
-function compactInverseHessianDiagonal(S: Float64Array[], Y: Float64Array[], rho: Float64Array, head: number, stored: number, n: number): Float64Array {
+function compactInverseHessianDiagonal(S: Float64Array[], Y: Float64Array[], rho: Float64Array, head: number, stored: number, n: number, h0: Float64Array, gamma: number): Float64Array {
   const out = new Float64Array(n);
   if (stored === 0) return out.fill(NaN);
   const mCap = S.length;
-  // Chronological order, oldest first.
+  // Chronological order, oldest first. H0 = gamma * diag(h0) (Byrd, Nocedal & Schnabel 1994, thm 2.2).
   const idx = Array.from({ length: stored }, (_, k) => (head - stored + k + mCap) % mCap);
   const k = stored;
-  const last = idx[k - 1]!;
-  const gamma = 1 / (rho[last]! * dot(Y[last]!, Y[last]!));
+  const hy = Y.map((y) => {
+    const v = new Float64Array(n);
+    for (let i = 0; i < n; i++) v[i] = gamma * h0[i]! * y[i]!;
+    return v;
+  });
   // R (upper triangular, R_ij = s_i'y_j for i <= j), its inverse, D and Y'Y.
   const R = new Float64Array(k * k);
   const YY = new Float64Array(k * k);
   for (let i = 0; i < k; i++) {
     for (let j = 0; j < k; j++) {
       if (i <= j) R[i * k + j] = dot(S[idx[i]!]!, Y[idx[j]!]!);
-      YY[i * k + j] = dot(Y[idx[i]!]!, Y[idx[j]!]!);
+      YY[i * k + j] = dot(Y[idx[i]!]!, hy[idx[j]!]!);
     }
   }
   const Rinv = new Float64Array(k * k);
@@ -210,9 +244,9 @@ function compactInverseHessianDiagonal(S: Float64Array[], Y: Float64Array[], rho
       Rinv[i * k + c] = s / R[i * k + i]!;
     }
   }
-  // A = R^-T (D + γ Y'Y) R^-1.
+  // A = R^-T (D + Y'H0 Y) R^-1.
   const mid = new Float64Array(k * k);
-  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) mid[i * k + j] = gamma * YY[i * k + j]! + (i === j ? R[i * k + i]! : 0);
+  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) mid[i * k + j] = YY[i * k + j]! + (i === j ? R[i * k + i]! : 0);
   const tmp = new Float64Array(k * k);
   for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) {
     let s = 0;
@@ -244,7 +278,8 @@ function compactInverseHessianDiagonal(S: Float64Array[], Y: Float64Array[], rho
       quad += sRow[a]! * sa;
       cross += sRow[a]! * ra;
     }
-    out[p] = gamma + quad - 2 * gamma * cross;
+    const h = gamma * h0[p]!;
+    out[p] = h + quad - 2 * h * cross;
   }
   return out;
 }

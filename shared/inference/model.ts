@@ -20,6 +20,12 @@ export interface Model {
   readonly minibatch?: MinibatchModel;
   /** Writes a sensible starting point (e.g. from data moments) into `out`; algorithms use zeros without it. */
   initialPoint?(out: Float64Array): void;
+  /**
+   * A positive approximation of the diagonal of -∇² log p at θ (e.g. expected Fisher
+   * information plus prior curvature). MAP uses it as the L-BFGS initial inverse Hessian and
+   * VI for starting sds; hierarchical models with data-rich groups are badly scaled without it.
+   */
+  curvatureDiagonal?(theta: Float64Array, out: Float64Array): void;
 }
 
 export interface MinibatchModel {
@@ -34,8 +40,8 @@ export interface MinibatchModel {
   /**
    * Optional per-unit weights (for weighted triples, the counts). With them an algorithm can
    * draw units in proportion to weight (i.e. draw rows) and pass `elementScale[k]` =
-   * totalWeight / (batchLength * weight[batch[k]]), which replaces `scale * weight` for that
-   * element and keeps the estimate unbiased.
+   * totalWeight / batchLength (each draw stands for that many rows), which replaces
+   * `scale * weight` for that element and keeps the estimate unbiased.
    */
   readonly unitWeights?: Float64Array;
 }

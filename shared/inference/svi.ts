@@ -3,12 +3,12 @@
 // from a random minibatch, scaled so the estimate is unbiased.
 //
 // With weighted triples the batch draws rows, i.e. units in proportion to their counts (Walker's
-// alias method, Vose's construction), each element scaled by total / (batch * count); without
+// alias method, Vose's construction), each element scaled by total / batch; without
 // unit weights it draws units uniformly with scale units / batch.
 import type { FitResult } from './fit-types';
 import type { Model } from './model';
 import type { Rng } from './rng';
-import { meanFieldFamily, runVariational, type VariationalOptions } from './variational';
+import { meanFieldFamily, runVariational, type GradientSource, type VariationalOptions } from './variational';
 
 export interface SviOptions extends VariationalOptions {
   /** Units per minibatch (default 512). */
@@ -56,25 +56,30 @@ export function fitSvi(model: Model, options: SviOptions): Promise<FitResult> {
   const batchSize = Math.max(1, Math.floor(options.batchSize ?? 512));
   const batch = new Int32Array(batchSize);
   const weights = mb.unitWeights;
-  let gradient: (theta: Float64Array, grad: Float64Array, rng: Rng) => number;
+  let gradient: GradientSource;
   if (weights) {
     const table = buildAliasTable(weights);
     const elementScale = new Float64Array(batchSize);
+    const rowScale = table.total / batchSize;
     const n = weights.length;
-    gradient = (theta, grad, rng) => {
+    gradient = (theta, grad, rng, reuseBatch) => {
+      if (!reuseBatch) drawRows(rng);
+      return mb.logDensityGradBatch(theta, grad, batch, batchSize, 1, elementScale);
+    };
+    const drawRows = (rng: Rng): void => {
       for (let k = 0; k < batchSize; k++) {
         const u = rng.uniform() * n;
         const j = Math.floor(u);
         const i = u - j < table.prob[j]! ? j : table.alias[j]!;
         batch[k] = i;
-        elementScale[k] = table.total / (batchSize * weights[i]!);
+        // Each drawn unit stands for one row; total / batch rows per draw keeps the sum unbiased.
+        elementScale[k] = rowScale;
       }
-      return mb.logDensityGradBatch(theta, grad, batch, batchSize, 1, elementScale);
     };
   } else {
     const n = mb.units;
-    gradient = (theta, grad, rng) => {
-      for (let k = 0; k < batchSize; k++) batch[k] = rng.int(n);
+    gradient = (theta, grad, rng, reuseBatch) => {
+      if (!reuseBatch) for (let k = 0; k < batchSize; k++) batch[k] = rng.int(n);
       return mb.logDensityGradBatch(theta, grad, batch, batchSize, n / batchSize);
     };
   }
@@ -83,5 +88,6 @@ export function fitSvi(model: Model, options: SviOptions): Promise<FitResult> {
     family: meanFieldFamily(model.dim),
     gradient,
     diagnostics: { batchSize, sampling: weights ? 'rows (alias method)' : 'units (uniform)' },
+    defaults: { antithetic: true, window: 200, reductions: 5 },
   });
 }

@@ -3,7 +3,8 @@
 // step-size schedule that needs no hand tuning.
 //
 // ADVI: Kucukelbir, Tran, Ranganath, Gelman & Blei (2017), "Automatic Differentiation
-// Variational Inference", JMLR 18(14). Adam: Kingma & Ba (2015).
+// Variational Inference", JMLR 18(14). Adam: Kingma & Ba (2015). Gradient estimator by default:
+// "sticking the landing" (Roeder, Wu & Duvenaud 2017, NeurIPS), exact at a Gaussian posterior.
 // The schedule (our design, documented here because it is not ADVI's own): Adam-normalised
 // steps, scaled per coordinate by the approximation's current sd so that a step means "a
 // fraction of a posterior sd" whatever the data size; start at the MAP with sds from the
@@ -11,7 +12,7 @@
 // window's, and when it has stopped improving beyond its Monte Carlo noise halve the step;
 // after `reductions` halvings the fit has converged, and the result is the average of the
 // last window's iterates (Polyak-Ruppert averaging), which removes most of the step noise.
-import { FitDivergedError, FitLoop, type FitMethod, type FitOptions, type FitResult } from './fit-types';
+import { FitDivergedError, FitLoop, initialPoint, type FitMethod, type FitOptions, type FitResult } from './fit-types';
 import { maximiseLbfgs } from './map';
 import type { Model } from './model';
 import type { Rng } from './rng';
@@ -19,7 +20,7 @@ import type { Rng } from './rng';
 export interface VariationalOptions extends FitOptions {
   /** Monte Carlo draws per gradient (default 1, as in ADVI). */
   readonly gradSamples?: number;
-  /** Iterations per convergence window (default 50). */
+  /** Iterations per convergence window (default 100). */
   readonly window?: number;
   /** Initial step, in units of the current sd per iteration (default 0.1). */
   readonly initialStep?: number;
@@ -29,6 +30,14 @@ export interface VariationalOptions extends FitOptions {
   readonly initFromMap?: boolean;
   /** Iteration cap for that MAP start (default 1000). */
   readonly mapMaxIterations?: number;
+  /**
+   * Draw ε and -ε in pairs on the same data (default: on for SVI, off for full-data ADVI).
+   * With minibatches the subsampling noise common to both halves cancels from the scale
+   * gradient, which otherwise swamps it; each half stays unbiased.
+   */
+  readonly antithetic?: boolean;
+  /** Use the "sticking the landing" gradient (default true); false gives the standard ADVI estimator. */
+  readonly stickingTheLanding?: boolean;
 }
 
 /** A Gaussian approximation q(θ; λ) with θ = T(λ, ε), ε ~ N(0, I). */
@@ -43,6 +52,12 @@ export interface GaussianFamily {
   transform(params: Float64Array, eps: Float64Array, theta: Float64Array): void;
   /** Adds weight * (∂θ/∂λ)ᵀ g to out: the data part of the reparameterised gradient. */
   accumulate(params: Float64Array, gTheta: Float64Array, eps: Float64Array, weight: number, out: Float64Array): void;
+  /**
+   * Adds ∇θ(-log q)(θ) at θ = T(λ, ε), i.e. Σ⁻¹(θ - μ) = L⁻ᵀε, to gTheta: with it and no
+   * entropy gradient the estimator is the "sticking the landing" path derivative (Roeder, Wu &
+   * Duvenaud 2017), unbiased and with zero variance where q equals the posterior.
+   */
+  pathCorrection(params: Float64Array, eps: Float64Array, gTheta: Float64Array): void;
   /** Entropy up to a constant, and its gradient added to out. */
   entropy(params: Float64Array, out: Float64Array | null): number;
   mean(params: Float64Array, out: Float64Array): void;
@@ -74,6 +89,9 @@ export function meanFieldFamily(dim: number): GaussianFamily {
         out[dim + i]! += w * g[i]! * eps[i]! * Math.exp(p[dim + i]!);
       }
     },
+    pathCorrection(p, eps, g) {
+      for (let i = 0; i < dim; i++) g[i]! += eps[i]! * Math.exp(-p[dim + i]!);
+    },
     entropy(p, out) {
       let h = 0;
       for (let i = 0; i < dim; i++) {
@@ -104,6 +122,7 @@ export function fullRankFamily(dim: number): GaussianFamily {
   const tri = (dim * (dim + 1)) / 2;
   const params = new Float64Array(dim + tri);
   const at = (i: number, j: number): number => dim + (i * (i + 1)) / 2 + j;
+  const solve = new Float64Array(dim);
   return {
     kind: 'fullrank',
     dim,
@@ -137,6 +156,15 @@ export function fullRankFamily(dim: number): GaussianFamily {
         for (let j = 0; j < i; j++) out[row + j]! += gi * eps[j]!;
         out[row + i]! += gi * eps[i]! * Math.exp(p[row + i]!);
       }
+    },
+    pathCorrection(p, eps, g) {
+      // Back substitution Lᵀ u = ε (Lᵀ is upper triangular), then g += u.
+      for (let i = dim - 1; i >= 0; i--) {
+        let r = eps[i]!;
+        for (let k = i + 1; k < dim; k++) r -= p[at(k, i)]! * solve[k]!;
+        solve[i] = r * Math.exp(-p[at(i, i)]!);
+      }
+      for (let i = 0; i < dim; i++) g[i]! += solve[i]!;
     },
     entropy(p, out) {
       let h = 0;
@@ -172,8 +200,11 @@ export function fullRankFamily(dim: number): GaussianFamily {
   };
 }
 
-/** Where the gradient of log p comes from: the full data or a minibatch estimate. */
-export type GradientSource = (theta: Float64Array, grad: Float64Array, rng: Rng) => number;
+/**
+ * Where the gradient of log p comes from: the full data or a minibatch estimate. With
+ * `reuseBatch` a minibatch source evaluates the batch it drew last time (for antithetic pairs).
+ */
+export type GradientSource = (theta: Float64Array, grad: Float64Array, rng: Rng, reuseBatch: boolean) => number;
 
 export interface VariationalRun {
   readonly method: FitMethod;
@@ -181,6 +212,8 @@ export interface VariationalRun {
   readonly gradient: GradientSource;
   /** Extra diagnostics the caller adds (e.g. batch size). */
   readonly diagnostics?: Readonly<Record<string, number | string | boolean>>;
+  /** Defaults this method applies where the caller's options are silent. */
+  readonly defaults?: Partial<Pick<VariationalOptions, 'window' | 'reductions' | 'antithetic' | 'gradSamples' | 'initialStep'>>;
 }
 
 function setLogSd(family: GaussianFamily, sd: Float64Array): void {
@@ -189,6 +222,95 @@ function setLogSd(family: GaussianFamily, sd: Float64Array): void {
     const idx = family.kind === 'meanfield' ? d + i : d + (i * (i + 1)) / 2 + i;
     family.params[idx] = Math.log(sd[i]!);
   }
+}
+
+/** Monte Carlo ELBO estimate of the family's current parameters (NaN draws count as -Infinity). */
+function estimateElbo(model: Model, family: GaussianFamily, rng: Rng, draws: number): number {
+  const d = family.dim;
+  const eps = new Float64Array(d);
+  const theta = new Float64Array(d);
+  const g = new Float64Array(d);
+  let s = 0;
+  for (let k = 0; k < draws; k++) {
+    for (let i = 0; i < d; i++) eps[i] = rng.normal();
+    family.transform(family.params, eps, theta);
+    const lp = model.logDensityGrad(theta, g);
+    s += Number.isFinite(lp) ? lp : -Infinity;
+  }
+  return s / draws + family.entropy(family.params, null);
+}
+
+/** Cholesky factor (row-major lower) of a symmetric matrix, or null if it is not positive definite. */
+function cholesky(a: Float64Array, n: number): Float64Array | null {
+  const l = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j <= i; j++) {
+      let s = a[i * n + j]!;
+      for (let k = 0; k < j; k++) s -= l[i * n + k]! * l[j * n + k]!;
+      if (i === j) {
+        if (!(s > 0)) return null;
+        l[i * n + i] = Math.sqrt(s);
+      } else {
+        l[i * n + j] = s / l[j * n + j]!;
+      }
+    }
+  }
+  return l;
+}
+
+/**
+ * Start full-rank ADVI at the Laplace approximation: the covariance is the inverse of a
+ * finite-difference Hessian at the mode (2 dim gradient calls). Returns false, leaving the
+ * diagonal start, when the Hessian is not positive definite.
+ */
+function setLaplaceCovariance(model: Model, family: GaussianFamily, sd0: Float64Array): boolean {
+  const n = family.dim;
+  const mode = Float64Array.from(family.params.subarray(0, n));
+  const gp = new Float64Array(n);
+  const gm = new Float64Array(n);
+  const H = new Float64Array(n * n);
+  const t = Float64Array.from(mode);
+  for (let j = 0; j < n; j++) {
+    const h = 1e-3 * sd0[j]!;
+    t[j] = mode[j]! + h;
+    const a = model.logDensityGrad(t, gp);
+    t[j] = mode[j]! - h;
+    const b = model.logDensityGrad(t, gm);
+    t[j] = mode[j]!;
+    if (!Number.isFinite(a) || !Number.isFinite(b)) return false;
+    for (let i = 0; i < n; i++) H[i * n + j] = -(gp[i]! - gm[i]!) / (2 * h);
+  }
+  for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) {
+    const v = 0.5 * (H[i * n + j]! + H[j * n + i]!);
+    H[i * n + j] = v;
+    H[j * n + i] = v;
+  }
+  const lh = cholesky(H, n);
+  if (!lh) return false;
+  // Σ = H^-1 = (Lh Lhᵀ)^-1: invert Lh by forward substitution, then Σ = Lh^-ᵀ Lh^-1.
+  const inv = new Float64Array(n * n);
+  for (let c = 0; c < n; c++) {
+    for (let i = c; i < n; i++) {
+      let s = i === c ? 1 : 0;
+      for (let k = c; k < i; k++) s -= lh[i * n + k]! * inv[k * n + c]!;
+      inv[i * n + c] = s / lh[i * n + i]!;
+    }
+  }
+  const cov = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let j = 0; j <= i; j++) {
+    let s = 0;
+    for (let k = i; k < n; k++) s += inv[k * n + i]! * inv[k * n + j]!;
+    cov[i * n + j] = s;
+    cov[j * n + i] = s;
+  }
+  const l = cholesky(cov, n);
+  if (!l) return false;
+  for (let i = 0; i < n; i++) {
+    const row = n + (i * (i + 1)) / 2;
+    for (let j = 0; j < i; j++) family.params[row + j] = l[i * n + j]!;
+    family.params[row + i] = Math.log(l[i * n + i]!);
+  }
+  return true;
 }
 
 /**
@@ -201,9 +323,12 @@ export async function runVariational(model: Model, options: VariationalOptions, 
   const d = model.dim;
   const P = family.params.length;
   const maxIter = options.maxIterations ?? 10_000;
-  const window = Math.max(5, Math.floor(options.window ?? 50));
-  const S = Math.max(1, Math.floor(options.gradSamples ?? 1));
-  const maxReductions = Math.max(0, Math.floor(options.reductions ?? 4));
+  const defaults = run.defaults ?? {};
+  const window = Math.max(5, Math.floor(options.window ?? defaults.window ?? 100));
+  const antithetic = options.antithetic ?? defaults.antithetic ?? false;
+  const S = Math.max(1, Math.floor(options.gradSamples ?? defaults.gradSamples ?? 1));
+  const maxReductions = Math.max(0, Math.floor(options.reductions ?? defaults.reductions ?? 4));
+  const stl = options.stickingTheLanding ?? true;
   const relTol = options.tolerance ?? 1e-9;
   const loop = new FitLoop(method, options, maxIter);
 
@@ -215,17 +340,33 @@ export async function runVariational(model: Model, options: VariationalOptions, 
     const map = await maximiseLbfgs(model, options, mapLoop);
     mapIterations = map.iterations;
     family.params.set(map.mode, 0);
-    for (let i = 0; i < d; i++) {
-      const v = map.inverseHessianDiagonal[i]!;
-      sd0[i] = v > 0 ? Math.min(1, Math.max(1e-6, Math.sqrt(v))) : 0.1;
+    if (!model.curvatureDiagonal) {
+      for (let i = 0; i < d; i++) {
+        const v = map.inverseHessianDiagonal[i]!;
+        sd0[i] = v > 0 ? Math.min(1, Math.max(1e-6, Math.sqrt(v))) : 0.1;
+      }
     }
   } else {
-    const init = options.init ?? new Float64Array(d);
-    if (!options.init && model.initialPoint) model.initialPoint(init);
-    if (init.length !== d) throw new RangeError(`init has length ${init.length}, model.dim is ${d}`);
-    family.params.set(init, 0);
+    family.params.set(initialPoint(model, options), 0);
+  }
+  if (model.curvatureDiagonal) {
+    // For a Gaussian posterior the mean-field optimum sd is 1/sqrt(H_ii): start there.
+    const c = new Float64Array(d);
+    model.curvatureDiagonal(family.params.subarray(0, d), c);
+    for (let i = 0; i < d; i++) sd0[i] = c[i]! > 0 && Number.isFinite(c[i]!) ? Math.min(1, Math.max(1e-8, 1 / Math.sqrt(c[i]!))) : 0.1;
   }
   setLogSd(family, sd0);
+  let laplaceStart = false;
+  if (family.kind === 'fullrank' && (options.initFromMap ?? true)) {
+    // The Laplace covariance is exact for Gaussian posteriors but can be far too wide on curved
+    // ones (non-centred hierarchies); keep it only if its ELBO beats the diagonal start's.
+    const diagonal = Float64Array.from(family.params);
+    const elboDiagonal = estimateElbo(model, family, rng, 30);
+    if (setLaplaceCovariance(model, family, sd0)) {
+      if (estimateElbo(model, family, rng, 30) > elboDiagonal) laplaceStart = true;
+      else family.params.set(diagonal);
+    }
+  }
 
   const params = family.params;
   const grad = new Float64Array(P);
@@ -235,16 +376,22 @@ export async function runVariational(model: Model, options: VariationalOptions, 
   const eps = new Float64Array(d);
   const theta = new Float64Array(d);
   const gTheta = new Float64Array(d);
+  const gMirror = new Float64Array(d);
+  const epsMirror = new Float64Array(d);
   const windowSum = new Float64Array(P);
   const averaged = new Float64Array(P);
   const beta1 = 0.9;
   const beta2 = 0.999;
-  let step = options.initialStep ?? 0.1;
+  let step = options.initialStep ?? defaults.initialStep ?? 0.1;
   let reductions = 0;
   let winElbo = 0;
   let winElboSq = 0;
   let prevMean = NaN;
   let prevVar = NaN;
+  let olderMean = NaN;
+  let lastC1 = 1;
+  let lastC2 = 1;
+  let olderVar = NaN;
   let lastMean = NaN;
   let lastSe = NaN;
   let retries = 0;
@@ -257,18 +404,36 @@ export async function runVariational(model: Model, options: VariationalOptions, 
     let elbo = 0;
     for (let s = 0; s < S; s++) {
       let lp = NaN;
+      let lpMirror = NaN;
       for (let attempt = 0; attempt < 10; attempt++) {
         for (let i = 0; i < d; i++) eps[i] = rng.normal();
         family.transform(params, eps, theta);
-        lp = run.gradient(theta, gTheta, rng);
+        lp = run.gradient(theta, gTheta, rng, false);
+        if (Number.isFinite(lp) && antithetic) {
+          for (let i = 0; i < d; i++) epsMirror[i] = -eps[i]!;
+          family.transform(params, epsMirror, theta);
+          lpMirror = run.gradient(theta, gMirror, rng, true);
+          if (!Number.isFinite(lpMirror)) lp = NaN;
+        }
         if (Number.isFinite(lp)) break;
         retries++;
       }
       if (!Number.isFinite(lp)) throw new FitDivergedError(method, iter, 'ten draws in a row from the approximation had a non-finite log density');
-      family.accumulate(params, gTheta, eps, 1 / S, grad);
-      elbo += lp / S;
+      if (antithetic) {
+        if (stl) {
+          family.pathCorrection(params, eps, gTheta);
+          family.pathCorrection(params, epsMirror, gMirror);
+        }
+        family.accumulate(params, gTheta, eps, 0.5 / S, grad);
+        family.accumulate(params, gMirror, epsMirror, 0.5 / S, grad);
+        elbo += (0.5 * (lp + lpMirror)) / S;
+      } else {
+        if (stl) family.pathCorrection(params, eps, gTheta);
+        family.accumulate(params, gTheta, eps, 1 / S, grad);
+        elbo += lp / S;
+      }
     }
-    elbo += family.entropy(params, grad);
+    elbo += family.entropy(params, stl ? null : grad);
     family.stepScale(scale);
     const c1 = 1 - beta1 ** (iter + 1);
     const c2 = 1 - beta2 ** (iter + 1);
@@ -284,6 +449,8 @@ export async function runVariational(model: Model, options: VariationalOptions, 
     winElbo += elbo;
     winElboSq += elbo * elbo;
     await loop.tick(iter, Number.isNaN(lastMean) ? elbo : lastMean);
+    lastC1 = c1;
+    lastC2 = c2;
 
     if ((iter + 1) % window === 0) {
       for (let k = 0; k < P; k++) {
@@ -300,18 +467,26 @@ export async function runVariational(model: Model, options: VariationalOptions, 
       winElboSq = 0;
       lastMean = mean;
       lastSe = Math.sqrt(variance);
+      // Compare with the window before last: twice the signal of a slow climb for the same noise.
       if (!Number.isNaN(prevMean)) {
         const change = mean - prevMean;
         const noise = 2 * Math.sqrt(variance + prevVar);
-        const stalled = change < noise || Math.abs(change) <= relTol * Math.abs(mean);
+        // Adam's |m / sqrt(v)| averages about 0.18 for pure noise (beta1 = 0.9) and nears 1 while
+        // parameters still move steadily; a flat ELBO with that signal is a slow climb, not a stall.
+        let snr = 0;
+        for (let k = 0; k < P; k++) snr += Math.abs(m1[k]! / lastC1) / (Math.sqrt(m2[k]! / lastC2) + 1e-300);
+        snr /= P;
+        const stalled = (change < noise || Math.abs(change) <= relTol * Math.abs(mean)) && snr < 0.35;
         if (stalled) {
           if (reductions >= maxReductions) { converged = true; iter++; break; }
           reductions++;
           step *= 0.5;
         }
       }
-      prevMean = mean;
-      prevVar = variance;
+      prevMean = olderMean;
+      prevVar = olderVar;
+      olderMean = mean;
+      olderVar = variance;
     }
   }
 
@@ -350,7 +525,10 @@ export async function runVariational(model: Model, options: VariationalOptions, 
       finalStep: step,
       stepReductions: reductions,
       mapIterations,
+      laplaceStart,
       nonFiniteDrawRetries: retries,
+      antithetic,
+      stickingTheLanding: stl,
       ...(run.diagnostics ?? {}),
     },
   };

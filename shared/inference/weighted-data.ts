@@ -18,8 +18,6 @@ export function collapseWeighted(group: ArrayLike<number>, value: ArrayLike<numb
     if (!(g >= 0 && g < groupCount) || !Number.isInteger(g)) throw new RangeError(`row ${i} has group ${g}, outside [0, ${groupCount})`);
     if (!Number.isFinite(value[i]!)) throw new RangeError(`row ${i} has a non-finite value ${value[i]}`);
   }
-  const order = new Uint32Array(n);
-  for (let i = 0; i < n; i++) order[i] = i;
   // Typed-array sort of packed keys is much faster than a comparator sort when the values
   // are small integers, the usual case for minutes; otherwise fall back to a comparator.
   let integral = true;
@@ -31,7 +29,6 @@ export function collapseWeighted(group: ArrayLike<number>, value: ArrayLike<numb
     if (v < minV) minV = v;
     if (v > maxV) maxV = v;
   }
-  let sorted: Uint32Array;
   if (integral && n > 0 && (maxV - minV + 1) * groupCount < 2 ** 52) {
     const span = maxV - minV + 1;
     const keys = new Float64Array(n);
@@ -56,10 +53,8 @@ export function collapseWeighted(group: ArrayLike<number>, value: ArrayLike<numb
     }
     return { groupCount, group: tg, value: tv, count: tc };
   }
-  sorted = order;
-  const arr = Array.from(sorted);
-  arr.sort((a, b) => group[a]! - group[b]! || value[a]! - value[b]!);
-  sorted = Uint32Array.from(arr);
+  const sorted = Array.from({ length: n }, (_, i) => i);
+  sorted.sort((a, b) => group[a]! - group[b]! || value[a]! - value[b]!);
   const tg: number[] = [];
   const tv: number[] = [];
   const tc: number[] = [];

@@ -1,0 +1,76 @@
+// Statistical checks of the seeded generator: reproducibility, ranges, moments, a chi-square
+// uniformity test (critical value from the chi-square distribution, 99.9% point for 99 degrees
+// of freedom, 148.23, standard tables) and independence of split streams.
+import { describe, expect, it } from 'vitest';
+import stdlibNormal from '@stdlib/stats-base-dists-normal';
+import { createRng } from '../../../shared/inference/rng';
+
+describe('createRng', () => {
+  it('gives the same stream for the same seed and different streams for different seeds', () => {
+    const a = createRng(42);
+    const b = createRng(42);
+    const c = createRng(43);
+    const xs = Array.from({ length: 5 }, () => a.uniform());
+    expect(Array.from({ length: 5 }, () => b.uniform())).toEqual(xs);
+    expect(Array.from({ length: 5 }, () => c.uniform())).not.toEqual(xs);
+  });
+
+  it('draws uniforms strictly inside (0, 1) that pass a chi-square test on 100 bins', () => {
+    const rng = createRng(7);
+    const bins = new Array<number>(100).fill(0);
+    const n = 200_000;
+    for (let i = 0; i < n; i++) {
+      const u = rng.uniform();
+      expect(u > 0 && u < 1).toBe(true);
+      bins[Math.floor(u * 100)]!++;
+    }
+    const expected = n / 100;
+    const chi2 = bins.reduce((s, o) => s + (o - expected) ** 2 / expected, 0);
+    expect(chi2).toBeLessThan(148.23);
+  });
+
+  it('draws standard normals whose moments and tail share match @stdlib/stats-base-dists-normal', () => {
+    const rng = createRng(11);
+    const n = 200_000;
+    let s = 0;
+    let ss = 0;
+    let beyond2 = 0;
+    for (let i = 0; i < n; i++) {
+      const z = rng.normal();
+      s += z;
+      ss += z * z;
+      if (z > 2) beyond2++;
+    }
+    expect(Math.abs(s / n)).toBeLessThan(4 / Math.sqrt(n));
+    expect(Math.abs(ss / n - 1)).toBeLessThan(4 * Math.sqrt(2 / n));
+    const p = 1 - stdlibNormal.cdf(2, 0, 1);
+    expect(Math.abs(beyond2 / n - p)).toBeLessThan(4 * Math.sqrt((p * (1 - p)) / n));
+  });
+
+  it('draws integers in [0, n) covering every value, and rejects a bad n', () => {
+    const rng = createRng(3);
+    const seen = new Set<number>();
+    for (let i = 0; i < 2000; i++) {
+      const k = rng.int(7);
+      expect(Number.isInteger(k) && k >= 0 && k < 7).toBe(true);
+      seen.add(k);
+    }
+    expect(seen.size).toBe(7);
+    expect(() => rng.int(0)).toThrow(RangeError);
+    expect(() => rng.int(2.5)).toThrow(RangeError);
+  });
+
+  it('splits into streams that are uncorrelated with the parent', () => {
+    const parent = createRng(5);
+    const child = parent.split();
+    const n = 50_000;
+    let sxy = 0;
+    for (let i = 0; i < n; i++) sxy += parent.normal() * child.normal();
+    expect(Math.abs(sxy / n)).toBeLessThan(4 / Math.sqrt(n));
+  });
+
+  it('rejects a seed that is not a finite number', () => {
+    expect(() => createRng(NaN)).toThrow(RangeError);
+    expect(() => createRng(Infinity)).toThrow(RangeError);
+  });
+});
