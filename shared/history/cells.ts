@@ -4,6 +4,8 @@
 // and returns a number, with NaN meaning "not a valid value". Empty cells are told apart
 // from bad ones by `isEmptyCell`, so a missing optional value is never counted as an error.
 
+import { isoDate } from '../delay/evaluation/flight-columns';
+
 /** A cell as a reader hands it over. */
 export type Cell = string | number | bigint | boolean | Date | null | undefined;
 
@@ -34,11 +36,8 @@ export function dayToDate(dayNumber: number): { year: number; month: number; day
   return { year: d.getUTCFullYear(), month: d.getUTCMonth() + 1, day: d.getUTCDate() };
 }
 
-/** A day number as YYYY-MM-DD. */
-export function formatDay(dayNumber: number): string {
-  const { year, month, day } = dayToDate(dayNumber);
-  return `${String(year).padStart(4, '0')}-${String(month).padStart(2, '0')}-${String(day).padStart(2, '0')}`;
-}
+/** A day number as YYYY-MM-DD (the bundle pipeline's isoDate). */
+export const formatDay = isoDate;
 
 const ISO_DATE = /^(\d{4})-(\d{1,2})-(\d{1,2})(?:[T ].*)?$/;
 const COMPACT_DATE = /^(\d{4})(\d{2})(\d{2})$/;

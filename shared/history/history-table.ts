@@ -152,19 +152,16 @@ class Growable {
 
   private grow(): void {
     const size = this.day.length * 2;
-    const day = new Int32Array(size);
-    day.set(this.day);
-    this.day = day;
-    const route = new Int32Array(size);
-    route.set(this.route);
-    this.route = route;
-    const arrival = new Int16Array(size);
-    arrival.set(this.arrival);
-    this.arrival = arrival;
-    const departure = new Int16Array(size);
-    departure.set(this.departure);
-    this.departure = departure;
+    this.day = grown(this.day, new Int32Array(size));
+    this.route = grown(this.route, new Int32Array(size));
+    this.arrival = grown(this.arrival, new Int16Array(size));
+    this.departure = grown(this.departure, new Int16Array(size));
   }
+}
+
+function grown<T extends Int32Array | Int16Array>(old: T, next: T): T {
+  next.set(old);
+  return next;
 }
 
 function cellText(cell: Cell): string {
@@ -249,26 +246,18 @@ export function createHistoryTableBuilder(): HistoryTableBuilder {
   // The caches are bounded so a hostile file of all-distinct values cannot grow them without end.
   const dateCache = new Map<string, number>();
   const airportCache = new Map<string, string>();
-  function cachedDate(cell: Cell): number {
-    if (typeof cell !== 'string') return parseFlightDate(cell);
-    let day = dateCache.get(cell);
-    if (day === undefined) {
-      day = parseFlightDate(cell);
-      if (dateCache.size >= CACHE_LIMIT) dateCache.clear();
-      dateCache.set(cell, day);
+  function cached<T>(cache: Map<string, T>, cell: Cell, parse: (cell: Cell) => T): T {
+    if (typeof cell !== 'string') return parse(cell);
+    let value = cache.get(cell);
+    if (value === undefined) {
+      value = parse(cell);
+      if (cache.size >= CACHE_LIMIT) cache.clear();
+      cache.set(cell, value);
     }
-    return day;
+    return value;
   }
-  function cachedAirport(cell: Cell): string {
-    if (typeof cell !== 'string') return parseAirportCode(cell);
-    let code = airportCache.get(cell);
-    if (code === undefined) {
-      code = parseAirportCode(cell);
-      if (airportCache.size >= CACHE_LIMIT) airportCache.clear();
-      airportCache.set(cell, code);
-    }
-    return code;
-  }
+  const cachedDate = (cell: Cell): number => cached(dateCache, cell, parseFlightDate);
+  const cachedAirport = (cell: Cell): string => cached(airportCache, cell, parseAirportCode);
 
   function add(cells: readonly Cell[], row: number): void {
     rows++;
