@@ -18,6 +18,7 @@ import { SettingsView } from '../views/settings-view';
 import { TargetInput } from '../views/target-input';
 import { TripsView, type Selection } from '../views/trips-view';
 import { clearPageAutosave, downloadWorkspace, isFirstStart, pickFile, readPageAutosave, readTextFile, readWorkspaceUpload, TRIP_FILE_TYPES, writePageAutosave } from './page-files';
+import { count } from './format';
 import { useAnalysis } from './use-analysis';
 
 type Tab = 'intake' | 'trips' | 'options' | 'group' | 'settings';
@@ -406,7 +407,7 @@ export function App({ api }: { api: LaylineApi }) {
           >
             {t.label}
             {t.id === 'trips' && analysis ? ` (${analysis.trips.length})` : ''}
-            {t.id === 'intake' && analysis && analysis.problems.length ? ` (${analysis.problems.length} problems)` : ''}
+            {t.id === 'intake' && analysis && analysis.problems.length ? ` (${count(analysis.problems.length, 'problem')})` : ''}
             {t.id === 'options' && optionCount ? ` (${optionCount})` : ''}
           </button>
         ))}

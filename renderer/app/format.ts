@@ -56,3 +56,8 @@ export function dayMarker(offset: number): string {
 export function legSummary(leg: LegView): string {
   return `${leg.flight} ${leg.from} ${clock(leg.departLocal)} ${leg.departZoneAbbr} → ${leg.to} ${clock(leg.arriveLocal)}${dayMarker(leg.arriveDayOffset)} ${leg.arriveZoneAbbr}`;
 }
+
+/** "1 trip", "3 trips". */
+export function count(n: number, noun: string, plural = `${noun}s`): string {
+  return `${n.toLocaleString('en-US')} ${n === 1 ? noun : plural}`;
+}

@@ -1,6 +1,7 @@
 // Intake: the trips text, its problems listed by line, and file import by dialog or drop.
 import { useMemo, useRef, useState } from 'preact/hooks';
 import type { Analysis } from '../../shared/api/analysis-schema';
+import { count } from '../app/format';
 
 export interface IntakeViewProps {
   readonly text: string;
@@ -99,7 +100,7 @@ export function IntakeView({ text, analysis, busy, onText, onImport, onDropFile,
         <aside class="problems" aria-labelledby="problems-title">
           <h3 id="problems-title">Problems</h3>
           <p role="status" data-testid="intake-summary">
-            {busy && !analysis ? 'Reading…' : analysis ? `${analysis.trips.length} trips, ${legs} legs read (${analysis.format}); ${problems.length === 0 ? 'no problems' : `${errors} errors, ${problems.length - errors} warnings`}.` : 'Nothing read yet.'}
+            {busy && !analysis ? 'Reading…' : analysis ? `${count(analysis.trips.length, 'trip')}, ${count(legs, 'leg')} read (${analysis.format}); ${problems.length === 0 ? 'no problems' : `${count(errors, 'error')}, ${count(problems.length - errors, 'warning')}`}.` : 'Nothing read yet.'}
           </p>
           {problems.length > 0 && (
             <ul class="problem-list">

@@ -53,11 +53,11 @@ describe('intake', () => {
     const area = page.getByRole('textbox', { name: 'Trips text' });
     await area.press('ControlOrMeta+End');
     await area.pressSequentially('Ada Quill,Offsite,UA 1137,ORD,2026-03-08 18:20,BOS,21:40\n', { delay: 5 });
-    await page.waitForFunction(() => /^1 trips, 2 legs/.test(document.querySelector('[data-testid="intake-summary"]')?.textContent ?? ''));
+    await page.waitForFunction(() => /^1 trip, 2 legs/.test(document.querySelector('[data-testid="intake-summary"]')?.textContent ?? ''));
     await page.keyboard.press('ControlOrMeta+Z');
     await waitForEngine(page);
     await expect(area.inputValue()).resolves.toBe(base);
-    await page.waitForFunction(() => /^1 trips, 1 legs/.test(document.querySelector('[data-testid="intake-summary"]')?.textContent ?? ''));
+    await page.waitForFunction(() => /^1 trip, 1 leg /.test(document.querySelector('[data-testid="intake-summary"]')?.textContent ?? ''));
     await page.keyboard.press('ControlOrMeta+Shift+Z');
     await expect(area.inputValue()).resolves.toContain('UA 1137');
   });
@@ -75,7 +75,7 @@ describe('intake from files', () => {
       document.querySelector('.editor')?.dispatchEvent(new DragEvent('drop', { bubbles: true, cancelable: true, dataTransfer: transfer }));
     }, csv);
     await page.getByRole('status').filter({ hasText: 'Imported offsite.csv' }).waitFor();
-    await page.getByTestId('intake-summary').filter({ hasText: /^1 trips, 2 legs read \(csv\)/ }).waitFor();
+    await page.getByTestId('intake-summary').filter({ hasText: /^1 trip, 2 legs read \(csv\)/ }).waitFor();
     await expect(page.getByRole('textbox', { name: 'Trips text' }).inputValue()).resolves.toBe(csv);
   });
 
@@ -99,6 +99,6 @@ describe('intake from files', () => {
     ].join('\r\n');
     const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.getByRole('button', { name: 'Import file…' }).click()]);
     await chooser.setFiles({ name: 'trip.ics', mimeType: 'text/calendar', buffer: Buffer.from(ics) });
-    await page.getByTestId('intake-summary').filter({ hasText: /^1 trips, 1 legs read \(ics\)/ }).waitFor();
+    await page.getByTestId('intake-summary').filter({ hasText: /^1 trip, 1 leg read \(ics\)/ }).waitFor();
   });
 });
