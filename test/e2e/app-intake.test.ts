@@ -63,6 +63,18 @@ describe('intake', () => {
   });
 });
 
+describe('intake of e-mail text', () => {
+  it('reads legs from itinerary lines and lists the other lines as ignored, by line', async () => {
+    const page = await openApp(harness);
+    const text = ['Your trip to Boston', 'Sunday, 8 March 2026', 'UA 1184 DFW 15:10 ORD 17:35', 'UA 1137 ORD 18:20 BOS 21:40', 'Seat 14C, meal included'].join('\n');
+    await pasteTrips(page, text);
+    await page.getByTestId('intake-summary').filter({ hasText: /^1 trip, 2 legs read \(text\)/ }).waitFor();
+    await page.getByRole('button', { name: /^Line 1, warning/ }).waitFor();
+    await page.getByRole('button', { name: /^Line 5, warning/ }).waitFor();
+    await harness.screenshot(page, 'app-intake-email');
+  });
+});
+
 describe('intake from files', () => {
   const csv = 'traveler,trip,flight,from,depart,to,arrive\nAda Quill,Offsite,UA 1184,DFW,2026-03-08 15:10,ORD,17:35\nAda Quill,Offsite,UA 1137,ORD,2026-03-08 18:20,BOS,21:40\n';
 
