@@ -4,7 +4,7 @@ import { createRng } from '../../../shared/inference/rng';
 import { FitAbortedError, FitDivergedError, type FitProgress } from '../../../shared/inference/fit-types';
 import type { Model } from '../../../shared/inference/model';
 import { createGroupedModel } from '../../../shared/delay/models/grouped';
-import { TEN_GROUPS, groupedGumbelData, gumbelEstimateSd } from './grouped-fixture';
+import { expectRecovered, groupedGumbelData } from './grouped-fixture';
 
 /** Independent normals N(m_i, s_i²) as a model: mean-field ADVI's optimum is exact here. */
 function normals(m: number[], s: number[]): Model {
@@ -43,12 +43,7 @@ describe.each([
     const model = createGroupedModel(groupedGumbelData(12, perGroup), { intervalHalfWidth: 0.5 });
     const r = await fit(model, { rng: createRng(3) });
     expect(r.converged).toBe(true);
-    for (let g = 0; g < 10; g++) {
-      const p = model.groupParameters(r.mean, g);
-      const se = gumbelEstimateSd(TEN_GROUPS.scales[g]!, perGroup);
-      expect(Math.abs(p.location - TEN_GROUPS.locations[g]!), `group ${g} location ${p.location}`).toBeLessThan(4 * se.location);
-      expect(Math.abs(p.scale - TEN_GROUPS.scales[g]!), `group ${g} scale ${p.scale}`).toBeLessThan(4 * se.scale);
-    }
+    expectRecovered(model, r.mean, perGroup, 4);
   });
 
   it('gives the same result for the same seed', async () => {

@@ -3,6 +3,8 @@ import { gumbelSample } from '../../../shared/delay/gumbel';
 import { createRng } from '../../../shared/inference/rng';
 import { collapseWeighted } from '../../../shared/inference/weighted-data';
 import type { WeightedData } from '../../../shared/inference/model';
+import type { HierarchicalDelayModel } from '../../../shared/delay/models/hierarchical-delay';
+import { expect } from 'vitest';
 
 export interface GroupedTruth {
   readonly locations: readonly number[];
@@ -37,4 +39,14 @@ export function groupedGumbelData(seed: number, perGroup: number, truth: Grouped
  */
 export function gumbelEstimateSd(beta: number, n: number): { location: number; scale: number } {
   return { location: Math.sqrt((1.1087 * beta * beta) / n), scale: Math.sqrt((0.6079 * beta * beta) / n) };
+}
+
+/** Every group's location and scale within `k` standard errors (large-sample, above) of the truth. */
+export function expectRecovered(model: HierarchicalDelayModel, theta: Float64Array, perGroup: number, k = 4, checkScale = true, truth: GroupedTruth = TEN_GROUPS): void {
+  for (let g = 0; g < truth.locations.length; g++) {
+    const p = model.groupParameters(theta, g);
+    const se = gumbelEstimateSd(truth.scales[g]!, perGroup);
+    expect(Math.abs(p.location - truth.locations[g]!), `group ${g} location ${p.location}, truth ${truth.locations[g]}, se ${se.location}`).toBeLessThan(k * se.location);
+    if (checkScale) expect(Math.abs(p.scale - truth.scales[g]!), `group ${g} scale ${p.scale}, truth ${truth.scales[g]}, se ${se.scale}`).toBeLessThan(k * se.scale);
+  }
 }

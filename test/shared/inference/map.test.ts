@@ -4,7 +4,7 @@ import { createRng } from '../../../shared/inference/rng';
 import { FitAbortedError, FitDivergedError, type FitProgress } from '../../../shared/inference/fit-types';
 import type { Model } from '../../../shared/inference/model';
 import { createGroupedModel } from '../../../shared/delay/models/grouped';
-import { TEN_GROUPS, groupedGumbelData, gumbelEstimateSd } from './grouped-fixture';
+import { expectRecovered, groupedGumbelData } from './grouped-fixture';
 
 /** The Rosenbrock function as a log density: mode at (1, 1), a curved valley (a classic optimiser test). */
 function rosenbrock(): Model {
@@ -38,12 +38,7 @@ describe('fitMap (L-BFGS)', () => {
     const model = createGroupedModel(groupedGumbelData(11, perGroup), { intervalHalfWidth: 0.5 });
     const fit = await fitMap(model, { rng: createRng(2) });
     expect(fit.converged).toBe(true);
-    for (let g = 0; g < 10; g++) {
-      const p = model.groupParameters(fit.mean, g);
-      const se = gumbelEstimateSd(TEN_GROUPS.scales[g]!, perGroup);
-      expect(Math.abs(p.location - TEN_GROUPS.locations[g]!), `group ${g} location ${p.location}`).toBeLessThan(4 * se.location);
-      expect(Math.abs(p.scale - TEN_GROUPS.scales[g]!), `group ${g} scale ${p.scale}`).toBeLessThan(4 * se.scale);
-    }
+    expectRecovered(model, fit.mean, perGroup, 4);
   });
 
   it('reports progress ending at fraction 1 with the final log density', async () => {

@@ -4,7 +4,7 @@ import { createRng } from '../../../shared/inference/rng';
 import { FitAbortedError } from '../../../shared/inference/fit-types';
 import type { Model } from '../../../shared/inference/model';
 import { createGroupedModel } from '../../../shared/delay/models/grouped';
-import { TEN_GROUPS, groupedGumbelData, gumbelEstimateSd } from './grouped-fixture';
+import { expectRecovered, groupedGumbelData } from './grouped-fixture';
 
 describe('fitSvi (minibatch stochastic VI)', () => {
   it('recovers every location and scale of ten Gumbel groups from 10,000 draws within 4 standard errors', async () => {
@@ -13,23 +13,14 @@ describe('fitSvi (minibatch stochastic VI)', () => {
     const fit = await fitSvi(model, { rng: createRng(6), batchSize: 256 });
     expect(fit.converged).toBe(true);
     expect(fit.diagnostics['sampling']).toBe('rows (alias method)');
-    for (let g = 0; g < 10; g++) {
-      const p = model.groupParameters(fit.mean, g);
-      const se = gumbelEstimateSd(TEN_GROUPS.scales[g]!, perGroup);
-      expect(Math.abs(p.location - TEN_GROUPS.locations[g]!), `group ${g} location ${p.location}`).toBeLessThan(4 * se.location);
-      expect(Math.abs(p.scale - TEN_GROUPS.scales[g]!), `group ${g} scale ${p.scale}`).toBeLessThan(4 * se.scale);
-    }
+    expectRecovered(model, fit.mean, perGroup, 4);
   });
 
   it('recovers the same groups when started away from the MAP', async () => {
     const perGroup = 1000;
     const model = createGroupedModel(groupedGumbelData(14, perGroup));
     const fit = await fitSvi(model, { rng: createRng(7), batchSize: 512, initFromMap: false, maxIterations: 20_000 });
-    for (let g = 0; g < 10; g++) {
-      const p = model.groupParameters(fit.mean, g);
-      const se = gumbelEstimateSd(TEN_GROUPS.scales[g]!, perGroup);
-      expect(Math.abs(p.location - TEN_GROUPS.locations[g]!), `group ${g} location ${p.location}`).toBeLessThan(5 * se.location);
-    }
+    expectRecovered(model, fit.mean, perGroup, 5, false);
   });
 
   it('scales the minibatch so its log-likelihood estimate is unbiased (weighted rows)', () => {
