@@ -32,6 +32,7 @@ export function estimateRemainingMs(elapsedMs: number, fraction: number): number
 export function createEtaProgress(io: CliIo, now: () => number = () => Date.now()): EtaProgress {
   const started = now();
   let lastLabel = '';
+  let lastStage = '';
   let lastDrawMs = -Infinity;
   let drawn = false;
   return {
@@ -46,8 +47,11 @@ export function createEtaProgress(io: CliIo, now: () => number = () => Date.now(
         const filled = Math.round(f * WIDTH);
         io.stderr(`\r[${'#'.repeat(filled)}${'-'.repeat(WIDTH - filled)}] ${percent}  ${eta}  ${label}\x1b[K`);
         drawn = true;
-      } else if (label !== lastLabel) {
-        io.stderr(`${percent}  ${eta}  ${label}\n`);
+      } else {
+        // One line per stage: labels that differ only in their counts ("12000 rows") are one stage.
+        const stage = label.replace(/\d+/g, '#');
+        if (stage !== lastStage) io.stderr(`${percent}  ${eta}  ${label}\n`);
+        lastStage = stage;
       }
       lastDrawMs = t;
       lastLabel = label;
