@@ -22,6 +22,14 @@ export const CANDIDATES: readonly Candidate[] = [
       'typical Gumbel plus a heavy-tailed Lomax (Pareto II) disrupted component per route, its tail index a pooled route parameter, ' +
       'with calendar-month random effects on the typical location, the disrupted scale and the logit weight; a future month draws a new effect',
   },
+  {
+    name: 'gumbel-3+month',
+    family: 'gumbel-gumbel-lomax',
+    monthEffects: [0, 2, 4],
+    description:
+      'typical Gumbel, wider disrupted Gumbel and a severe heavy-tailed Lomax (Pareto II) component per route, every parameter pooled hierarchically, ' +
+      'with calendar-month random effects on the typical and disrupted locations and the non-typical weight; a future month draws a new effect',
+  },
 ];
 
 export const SAMPLE = {

@@ -39,9 +39,22 @@ function progressLogger(label: string): (p: { iteration: number; objective: numb
   };
 }
 
-/** The candidate with the highest held-out-days log score. */
+/** The largest pooled |relative error| over the tail thresholds. */
+function worstTailError(r: HeldOutReport): number {
+  return Math.max(...r.pooled.map((p) => (p.relativeError === null ? Infinity : Math.abs(p.relativeError))));
+}
+
+/**
+ * The selection rule: on the held-out days, the smallest worst-case pooled tail error (the
+ * issue's target metric, since the tail decides a missed connection), then the higher log score.
+ */
+export const SELECTION_RULE =
+  'on the held-out days, the smallest largest pooled |relative error| of P(delay > t) over t = 15, 30, 60, 120, 180; ties broken by the higher log predictive density';
+
 function best(reports: readonly HeldOutReport[]): string {
-  const days = reports.filter((r) => r.split === 'held-out days').sort((a, b) => b.natsPerFlight - a.natsPerFlight);
+  const days = reports
+    .filter((r) => r.split === 'held-out days')
+    .sort((a, b) => worstTailError(a) - worstTailError(b) || b.natsPerFlight - a.natsPerFlight);
   if (!days[0]) throw new Error('no held-out scores to choose from');
   return days[0].candidate;
 }
@@ -106,7 +119,7 @@ async function main(): Promise<void> {
   const selection = values.candidate
     ? `${chosen.name}, chosen by hand (--candidate).`
     : comparison.length && !values['skip-comparison']
-      ? `${chosen.name}: the highest held-out log predictive density on the held-out days.`
+      ? `${chosen.name}, by the rule: ${SELECTION_RULE}.`
       : previousSelection || `${chosen.name}.`;
 
   log(`fitting ${chosen.name} on all ${report.kept.toLocaleString('en-US')} flights`);

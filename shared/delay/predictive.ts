@@ -13,6 +13,8 @@ export interface DelayDistribution {
   /** P(delay > x), accurate in the far right tail. */
   survival(x: number): number;
   pdf(x: number): number;
+  /** log pdf(x), computed without underflow far in the tails (optional; scores use it when present). */
+  logPdf?(x: number): number;
   sample(rng: Rng): number;
 }
 

@@ -72,7 +72,7 @@ export const BundleSchema = v.strictObject({
     routeSd: v.array(nonNegative),
     originSd: v.array(nonNegative),
     destinationSd: v.array(nonNegative),
-    /** Per month effect: the posterior of log sd_month, as a Gaussian. */
+    /** Per month effect: the posterior of the log sd of a new month's effect about the average month, as a Gaussian. */
     monthLogSd: v.array(GaussianSchema),
     /** Student-t degrees of freedom: the posterior of log df (null without a t component). */
     logDf: v.nullable(GaussianSchema),

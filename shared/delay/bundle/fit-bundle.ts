@@ -117,7 +117,8 @@ export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candid
     init: model.fromNatural(natural0),
     rng: createRng(options.seed),
     maxIterations: options.maxIterations ?? 3000,
-    tolerance: options.tolerance ?? 1e-3,
+    // Predicted gain of another step, in nats of a log density of order 1e7: 0.05 is far below any change a score would show.
+    tolerance: options.tolerance ?? 0.05,
     onProgress: options.onProgress,
     signal: options.signal,
   };
@@ -151,7 +152,17 @@ export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candid
   const effectSd = (count: number, prior: readonly number[]) =>
     Array.from({ length: k }, (_, j) => round(1 / Math.sqrt(1 / prior[j]! ** 2 + count / sdRoute[j]! ** 2)));
 
-  const monthLogSd = L.monthEffects.map((_, slot) => ({ mean: round(theta[L.logTau + slot]!), sd: round(coordinateLaplaceSd(model, theta, L.logTau + slot)) }));
+  // A new month's effect about the average of the P fitted months has sd tau * sqrt(1 + 1/P).
+  const newMonthInflation = L.periods > 0 ? 0.5 * Math.log(1 + 1 / L.periods) : 0;
+  const monthLogSd = L.monthEffects.map((_, slot) => ({
+    mean: round(theta[L.logTau + slot]! + newMonthInflation),
+    sd: round(coordinateLaplaceSd(model, theta, L.logTau + slot)),
+  }));
+  const monthMeans = L.monthEffects.map((_, slot) => {
+    let sum = 0;
+    for (let q = 0; q < L.periods; q++) sum += theta[L.delta + q * m + slot]!;
+    return sum / Math.max(L.periods, 1);
+  });
   const logDf = L.logDf >= 0 ? { mean: round(theta[L.logDf]!), sd: round(coordinateLaplaceSd(model, theta, L.logDf)) } : null;
   const fitMs = Date.now() - started;
 
@@ -207,7 +218,7 @@ export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candid
     },
     months: {
       labels: m ? [...data.periodLabels] : [],
-      effects: m ? data.periodLabels.map((_, q) => Array.from({ length: m }, (_, slot) => round(Math.exp(theta[L.logTau + slot]!) * theta[L.delta + q * m + slot]!))) : [],
+      effects: m ? data.periodLabels.map((_, q) => Array.from({ length: m }, (_, slot) => round(Math.exp(theta[L.logTau + slot]!) * (theta[L.delta + q * m + slot]! - monthMeans[slot]!)))) : [],
     },
     routes: { rows },
     departure: { derived: true, offsetMinutes: EN_ROUTE_RECOVERY_MINUTES, assumption: DEPARTURE_ASSUMPTION, reference: DEPARTURE_REFERENCE },

@@ -5,7 +5,7 @@
 // the whole distribution (departure delays derived from arrival delays add the en-route
 // recovery offset).
 import type { Rng } from '../../inference/rng';
-import { gumbelCdf, gumbelPdf, gumbelSample, gumbelSurvival } from '../gumbel';
+import { gumbelCdf, gumbelLogPdf, gumbelPdf, gumbelSample, gumbelSurvival } from '../gumbel';
 import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
 import type { DelayDistribution } from '../predictive';
@@ -87,6 +87,14 @@ function componentPdf(c: Component, x: number): number {
   return u < 0 ? 0 : (c.shape / c.scale) * Math.exp(-(c.shape + 1) * Math.log1p(u));
 }
 
+function componentLogPdf(c: Component, x: number): number {
+  if (c.kind === 'gumbel') return gumbelLogPdf(x, c.location, c.scale);
+  if (!Number.isFinite(x)) return -Infinity;
+  const u = (x - c.location) / c.scale;
+  if (c.kind === 't') return c.logConstant - ((c.shape + 1) / 2) * Math.log1p((u * u) / c.shape);
+  return u < 0 ? -Infinity : Math.log(c.shape / c.scale) - (c.shape + 1) * Math.log1p(u);
+}
+
 function componentSample(c: Component, rng: Rng): number {
   if (c.kind === 'gumbel') return gumbelSample(rng, c.location, c.scale);
   if (c.kind === 't') return studentTSample(rng, c.location, c.scale, c.shape);
@@ -134,6 +142,18 @@ export class TailMixtureDistribution implements DelayDistribution {
     let s = 0;
     for (const c of this.parts) s += c.weight * componentPdf(c, x);
     return s;
+  }
+
+  /** log pdf by log-sum-exp over components: finite where pdf underflows to 0. */
+  logPdf(x: number): number {
+    if (Number.isNaN(x)) return NaN;
+    let top = -Infinity;
+    const logs = this.parts.map((c) => Math.log(c.weight) + componentLogPdf(c, x));
+    for (const l of logs) if (l > top) top = l;
+    if (top === -Infinity) return -Infinity;
+    let sum = 0;
+    for (const l of logs) sum += Math.exp(l - top);
+    return top + Math.log(sum);
   }
 
   sample(rng: Rng): number {

@@ -24,6 +24,12 @@ class MixtureDistribution implements DelayDistribution {
     for (let i = 0; i < this.parts.length; i++) s += this.weights[i]! * this.parts[i]!.pdf(x);
     return s;
   }
+  logPdf(x: number): number {
+    const logs = this.parts.map((d, i) => Math.log(this.weights[i]!) + (d.logPdf ? d.logPdf(x) : Math.log(d.pdf(x))));
+    const top = Math.max(...logs);
+    if (top === -Infinity) return -Infinity;
+    return top + Math.log(logs.reduce((a, l) => a + Math.exp(l - top), 0));
+  }
   sample(rng: Rng): number {
     let u = rng.uniform();
     for (let i = 0; i < this.parts.length - 1; i++) {

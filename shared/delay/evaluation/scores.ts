@@ -36,6 +36,21 @@ export interface LogScore {
   readonly natsPerFlight: number;
 }
 
+/** log of the mean density over draws, in log space when the draws offer logPdf (no underflow far in a tail). */
+function logMeanDensity(draws: readonly DelayDistribution[], y: number): number {
+  if (draws.every((d) => d.logPdf)) {
+    let top = -Infinity;
+    for (const d of draws) top = Math.max(top, d.logPdf!(y));
+    if (top === -Infinity) return -Infinity;
+    let s = 0;
+    for (const d of draws) s += Math.exp(d.logPdf!(y) - top);
+    return top + Math.log(s / draws.length);
+  }
+  let p = 0;
+  for (const d of draws) p += d.pdf(y);
+  return Math.log(p / draws.length);
+}
+
 /**
  * Held-out log predictive density: sum_i log( (1/S) sum_s p_s(y_i) ), per flight.
  * @example one flight at 0 under a single standard Gumbel draw gives natsPerFlight -1
@@ -52,10 +67,8 @@ export function logPredictiveDensity(data: WeightedData, predictiveFor: Predicti
       cachedGroup = g;
     }
     const y = data.value[i]!;
-    let p = 0;
-    for (const d of draws) p += d.pdf(y);
     const n = data.count[i]!;
-    total += n * Math.log(p / draws.length);
+    total += n * logMeanDensity(draws, y);
     flights += n;
   }
   return { totalNats: total, flights, natsPerFlight: flights > 0 ? total / flights : NaN };

@@ -5,7 +5,8 @@
 //
 // Each route's parameter vector phi_r ~ N(pop + A_origin + B_dest, sigma_route), with
 // A = sigma_origin * a, B = sigma_dest * b, a, b ~ N(0, 1), and month effects likewise
-// delta = tau * d. Routes are centred: thousands of flights pin each phi_r, and its
+// delta_q = tau * (d_q - mean d): centred over the fitted months, so the route parameters are
+// those of the average month and a new month's effect is drawn around it. Routes are centred: thousands of flights pin each phi_r, and its
 // conditional posterior is what the bundle's block Laplace approximation uses. Airport and
 // month effects are non-centred: in the centred form the joint mode runs off to sd -> 0
 // (the density grows like sd^-n as all effects shrink together), which MAP must avoid.
@@ -309,7 +310,18 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
   const eta = new Float64Array(k);
   const runGrad = new Float64Array(k);
   const tau = new Float64Array(Math.max(m, 1));
+  const dMean = new Float64Array(Math.max(m, 1));
   const nt = new Float64Array(3);
+
+  /** Mean over months of each month-effect coordinate, into out. */
+  function monthEffectMeans(theta: Float64Array, out: Float64Array): void {
+    out.fill(0);
+    for (let slot = 0; slot < m; slot++) {
+      let sum = 0;
+      for (let q = 0; q < layout.periods; q++) sum += theta[layout.delta + q * m + slot]!;
+      out[slot] = layout.periods ? sum / layout.periods : 0;
+    }
+  }
 
   /**
    * Likelihood of triples [from, to). Triples come in runs of one (route, month); everything
@@ -325,6 +337,7 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
     // Student-t constants, once per call: the log normaliser and the parts of d/d df that do not depend on x.
     const tConst = hasT ? logGamma((df + 1) / 2) - logGamma(df / 2) - 0.5 * Math.log(df * Math.PI) : 0;
     const tDfConst = hasT ? 0.5 * (digamma((df + 1) / 2) - digamma(df / 2) - 1 / df) : 0;
+    monthEffectMeans(theta, dMean);
     for (let slot = 0; slot < m; slot++) tau[slot] = Math.exp(theta[layout.logTau + slot]!);
     let total = 0;
     let gDf = 0;
@@ -338,7 +351,7 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
       for (let j = 0; j < k; j++) {
         let v = phiOverride ? phiOverride[j]! : theta[base + j]!;
         const slot = effectSlot[j]!;
-        if (slot >= 0) v += tau[slot]! * theta[layout.delta + q * m + slot]!;
+        if (slot >= 0) v += tau[slot]! * (theta[layout.delta + q * m + slot]! - dMean[slot]!);
         eta[j] = v;
       }
       const mu = eta[0]!;
@@ -494,7 +507,7 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
           if (slot < 0) continue;
           const di = layout.delta + q * m + slot;
           grad[di]! += tau[slot]! * runGrad[j]!;
-          grad[layout.logTau + slot]! += tau[slot]! * theta[di]! * runGrad[j]!;
+          grad[layout.logTau + slot]! += tau[slot]! * (theta[di]! - dMean[slot]!) * runGrad[j]!;
         }
       }
       i = end;
@@ -506,6 +519,14 @@ export function createTailMixtureModel(family: TailFamily, input: TailMixtureDat
   function naturalLogDensityGrad(theta: Float64Array, grad: Float64Array): number {
     grad.fill(0);
     let lp = likelihood(theta, 0, data.group.length, null, grad, null);
+    // The month effects enter centred, tau * (d_q - mean d), so the likelihood's gradient in d_q
+    // is the effect's gradient minus its average over months.
+    for (let slot = 0; slot < m; slot++) {
+      let g = 0;
+      for (let q = 0; q < layout.periods; q++) g += grad[layout.delta + q * m + slot]!;
+      g /= layout.periods;
+      for (let q = 0; q < layout.periods; q++) grad[layout.delta + q * m + slot]! -= g;
+    }
     // Route level: phi_r ~ N(pop + A_o + B_d, sd_route).
     for (let r = 0; r < layout.routes; r++) {
       const o = input.originOf[r]!;

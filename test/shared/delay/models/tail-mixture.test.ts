@@ -111,3 +111,19 @@ describe('component densities', () => {
     expect(Math.abs(above / 20_000 - (1 + 60.5 / 30) ** -2.5)).toBeLessThan(0.01);
   });
 });
+
+describe('TailMixtureDistribution.logPdf', () => {
+  const eta = Float64Array.from([-5, Math.log(8), 20, Math.log(35), -1.4, Math.log(60), Math.log(3), -1.5]);
+  const d = new TailMixtureDistribution('gumbel-gumbel-lomax', eta, NaN);
+
+  it('equals log(pdf) where the density is representable', () => {
+    for (const x of [-20, 0, 30, 240]) expect(d.logPdf(x)).toBeCloseTo(Math.log(d.pdf(x)), 10);
+  });
+
+  it('stays finite far in the left tail, where pdf underflows to 0', () => {
+    expect(d.pdf(-400)).toBe(0);
+    expect(d.logPdf(-400)).toBeLessThan(-1000);
+    expect(Number.isFinite(d.logPdf(-400))).toBe(true);
+    expect(d.logPdf(NaN)).toBeNaN();
+  });
+});
