@@ -44,6 +44,19 @@ describe('connections', () => {
     expect(pageErrors(page)).toEqual([]);
   });
 
+  it('shows local times with zone abbreviations, a +1 on the red-eye, and the self-transfer warning', async () => {
+    const page = await openApp(harness);
+    await pasteTrips(page, DEMO_TRIPS_TEXT);
+    await page.getByRole('tab', { name: /^Trips/ }).click();
+    const redEye = page.getByRole('rowgroup', { name: 'Trip of Ezra Blackwood' });
+    // IANA tz: Seattle is on PST before 8 March 2026 02:00, Chicago on CDT after it.
+    await expect(redEye.locator('.legs li').first().textContent()).resolves.toMatch(/SEA 23:10 PST → ORD 06:05\+1 CDT/);
+    await page.getByRole('row', { name: 'Connection at LAS for Sunniva Aldana' }).click();
+    const detail = page.getByTestId('connection-detail');
+    await detail.getByText(/^Separate tickets: .*checked in again/).first().waitFor();
+    await harness.screenshot(page, 'app-self-transfer');
+  });
+
   it('changing the target updates the minimum layovers', async () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
