@@ -379,6 +379,8 @@ export async function runVariational(model: Model, options: VariationalOptions, 
   const gMirror = new Float64Array(d);
   const epsMirror = new Float64Array(d);
   const windowSum = new Float64Array(P);
+  const boost = new Float64Array(P).fill(1);
+  const lastSign = new Int8Array(P);
   const averaged = new Float64Array(P);
   const beta1 = 0.9;
   const beta2 = 0.999;
@@ -442,7 +444,7 @@ export async function runVariational(model: Model, options: VariationalOptions, 
       if (!Number.isFinite(g)) throw new FitDivergedError(method, iter, `the ELBO gradient is not finite (parameter ${k})`);
       m1[k] = beta1 * m1[k]! + (1 - beta1) * g;
       m2[k] = beta2 * m2[k]! + (1 - beta2) * g * g;
-      const upd = (step * scale[k]! * (m1[k]! / c1)) / (Math.sqrt(m2[k]! / c2) + 1e-12);
+      const upd = (step * boost[k]! * scale[k]! * (m1[k]! / c1)) / (Math.sqrt(m2[k]! / c2) + 1e-12);
       params[k]! += upd;
       windowSum[k]! += params[k]!;
     }
@@ -459,6 +461,17 @@ export async function runVariational(model: Model, options: VariationalOptions, 
         averaged[k] = v;
       }
       haveAverage = true;
+      // Per-parameter step boost (in the spirit of Jacobs' 1988 delta-bar-delta): a parameter
+      // whose averaged gradient kept one sign through the window is travelling far in units of
+      // its own sd (e.g. a hierarchy scale moving away from its MAP value), so its step doubles,
+      // up to 1024x; once the sign wavers the boost halves back toward 1.
+      for (let k = 0; k < P; k++) {
+        const r = Math.abs(m1[k]! / c1) / (Math.sqrt(m2[k]! / c2) + 1e-300);
+        const sign = m1[k]! > 0 ? 1 : -1;
+        if (r > 0.5 && sign === lastSign[k]) boost[k] = Math.min(1024, boost[k]! * 2);
+        else boost[k] = Math.max(1, boost[k]! * 0.5);
+        lastSign[k] = r > 0.5 ? sign : 0;
+      }
       windowSum.fill(0);
       const mean = winElbo / window;
       // Monte Carlo variance of the window mean (draws treated as independent).
