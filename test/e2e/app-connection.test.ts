@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_TRIPS_TEXT } from '../../shared/demo/demo-workspace';
 import path from 'node:path';
 import { artifactsDir, pageErrors, startHarness, type Harness } from './harness';
-import { openApp, paintedPixels, pasteTrips } from './app-helpers';
+import { openApp, paintedPixels, pasteTrips, showTrips } from './app-helpers';
 
 let harness: Harness;
 beforeAll(async () => {
@@ -22,11 +22,11 @@ describe('connections', () => {
   it('opening a connection draws both charts and says in words how many would miss it', async () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
-    await page.getByRole('tab', { name: /^Trips/ }).click();
+    await showTrips(page);
     await page.getByRole('row', { name: 'Connection at ORD for Ines Calloway' }).click();
     const detail = page.getByTestId('connection-detail');
     await detail.waitFor();
-    await expect(page.getByTestId('miss-sentence').textContent()).resolves.toMatch(/^(About|Fewer than|More than) [\d,]+ in [\d,]+ travelers on this connection would miss it\.$/);
+    await expect.poll(() => page.getByTestId('miss-sentence').textContent()).toMatch(/^(About|Fewer than|More than) [\d,]+ in [\d,]+ travelers on this connection would miss it\.$/);
     expect(await paintedPixels(page, 'make-curve-chart')).toBeGreaterThan(2000);
     expect(await paintedPixels(page, 'margin-chart')).toBeGreaterThan(2000);
     // A longer layover, read off the curve, is at least as likely to be made.
@@ -34,9 +34,9 @@ describe('connections', () => {
     const slider = page.getByRole('slider', { name: /Try another layover/ });
     await slider.focus();
     for (let i = 0; i < 30; i++) await page.keyboard.press('ArrowRight');
+    await expect.poll(() => page.getByTestId('what-if').textContent()).toMatch(/^With 75 minutes/);
     const after = await page.getByTestId('what-if').textContent();
     const pct = (s: string | null) => Number(/: (\d+)% chance/.exec(s ?? '')?.[1]);
-    expect(after).toMatch(/^With 75 minutes/);
     expect(pct(after)).toBeGreaterThanOrEqual(pct(before));
     await harness.screenshot(page, 'app-connection-detail');
     await page.getByTestId('margin-chart').scrollIntoViewIfNeeded();
@@ -47,10 +47,10 @@ describe('connections', () => {
   it('shows local times with zone abbreviations, a +1 on the red-eye, and the self-transfer warning', async () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
-    await page.getByRole('tab', { name: /^Trips/ }).click();
+    await showTrips(page);
     const redEye = page.getByRole('rowgroup', { name: 'Trip of Ezra Blackwood' });
     // IANA tz: Seattle is on PST before 8 March 2026 02:00, Chicago on CDT after it.
-    await expect(redEye.locator('.legs li').first().textContent()).resolves.toMatch(/SEA 23:10 PST → ORD 06:05\+1 CDT/);
+    await expect.poll(() => redEye.locator('.legs li').first().textContent()).toMatch(/SEA 23:10 PST → ORD 06:05\+1 CDT/);
     await page.getByRole('row', { name: 'Connection at LAS for Sunniva Aldana' }).click();
     const detail = page.getByTestId('connection-detail');
     await detail.getByText(/^Separate tickets: .*checked in again/).first().waitFor();
@@ -60,7 +60,7 @@ describe('connections', () => {
   it('changing the target updates the minimum layovers', async () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
-    await page.getByRole('tab', { name: /^Trips/ }).click();
+    await showTrips(page);
     const before = await minLayoverTexts(page);
     const target = page.getByRole('spinbutton', { name: 'Target on-time chance (%)' }).first();
     await target.fill('98');
@@ -82,23 +82,25 @@ describe('connections', () => {
   it('filters by traveler and airport, sorts, and undoes the filter with Ctrl+Z', async () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
-    await page.getByRole('tab', { name: /^Trips/ }).click();
+    await showTrips(page);
     const groups = page.locator('table.trip-table > tbody');
     const all = await groups.count();
     await page.getByRole('combobox', { name: 'Airport' }).selectOption('DTW');
-    const viaDtw = await groups.count();
-    expect(viaDtw).toBeGreaterThan(0);
-    expect(viaDtw).toBeLessThan(all);
+    await expect.poll(() => groups.count()).toBeLessThan(all);
+    expect(await groups.count()).toBeGreaterThan(0);
     for (const text of await groups.allTextContents()) expect(text).toContain('DTW');
     await page.getByRole('searchbox', { name: 'Traveler' }).fill('noor');
     await page.waitForFunction(() => document.querySelectorAll('table.trip-table > tbody').length === 1);
-    await expect(groups.first().getAttribute('aria-label')).resolves.toBe('Trip of Noor Haddad');
+    await expect.poll(() => groups.first().getAttribute('aria-label')).toBe('Trip of Noor Haddad');
     await page.getByRole('combobox', { name: 'Airport' }).selectOption('');
     await page.getByRole('searchbox', { name: 'Traveler' }).fill('');
     await page.getByRole('combobox', { name: 'Sort' }).selectOption('traveler');
+    await expect.poll(() => groups.count()).toBe(all);
+    await expect.poll(() => groups.first().getAttribute('aria-label')).toBe('Trip of Amara Nwosu');
     const names = await page.locator('table.trip-table > tbody').evaluateAll((els) => els.map((e) => e.getAttribute('aria-label') ?? ''));
     expect(names).toEqual([...names].sort((a, b) => a.localeCompare(b)));
     await page.getByRole('combobox', { name: 'Sort' }).selectOption('risk');
+    await expect.poll(() => groups.first().getAttribute('aria-label')).not.toBe('Trip of Amara Nwosu');
     const risks = await page.locator('tr.trip-row').evaluateAll((rows) => rows.map((r) => r.querySelector('.risk-word')?.textContent ?? 'none'));
     // Riskiest first: every scored trip sits above every trip with nothing to score.
     const firstUnscored = risks.indexOf('none');
@@ -107,22 +109,22 @@ describe('connections', () => {
     // Undo walks back one step at a time: both sorts, the cleared traveler, the cleared airport.
     await page.locator('body').click({ position: { x: 5, y: 5 } });
     await page.keyboard.press('ControlOrMeta+Z');
-    await expect(page.getByRole('combobox', { name: 'Sort' }).inputValue()).resolves.toBe('traveler');
+    await expect.poll(() => page.getByRole('combobox', { name: 'Sort' }).inputValue()).toBe('traveler');
     await page.keyboard.press('ControlOrMeta+Z');
-    await expect(page.getByRole('combobox', { name: 'Sort' }).inputValue()).resolves.toBe('risk');
+    await expect.poll(() => page.getByRole('combobox', { name: 'Sort' }).inputValue()).toBe('risk');
     await page.keyboard.press('ControlOrMeta+Z');
-    await expect(page.getByRole('searchbox', { name: 'Traveler' }).inputValue()).resolves.toBe('noor');
+    await expect.poll(() => page.getByRole('searchbox', { name: 'Traveler' }).inputValue()).toBe('noor');
     await page.keyboard.press('ControlOrMeta+Z');
-    await expect(page.getByRole('combobox', { name: 'Airport' }).inputValue()).resolves.toBe('DTW');
-    expect(await groups.count()).toBe(1);
+    await expect.poll(() => page.getByRole('combobox', { name: 'Airport' }).inputValue()).toBe('DTW');
+    await expect.poll(() => groups.count()).toBe(1);
     await page.keyboard.press('ControlOrMeta+Shift+Z');
-    await expect(page.getByRole('combobox', { name: 'Airport' }).inputValue()).resolves.toBe('');
+    await expect.poll(() => page.getByRole('combobox', { name: 'Airport' }).inputValue()).toBe('');
   });
 
   it('moves between rows with the arrow keys and opens a connection with Enter', async () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
-    await page.getByRole('tab', { name: /^Trips/ }).click();
+    await showTrips(page);
     await page.locator('tr[data-row]').first().focus();
     await page.keyboard.press('ArrowDown');
     const focused = await page.evaluate(() => document.activeElement?.getAttribute('data-row') ?? '');

@@ -27,16 +27,26 @@ export async function pasteTrips(page: Page, text: string): Promise<void> {
   await waitForEngine(page);
 }
 
-/** Number of canvas pixels that are not fully transparent. */
+/**
+ * Number of canvas pixels that are not fully transparent, once the chart has drawn: the
+ * canvas is mounted first and chart.js draws on it in an effect just after.
+ */
 export async function paintedPixels(page: Page, testId: string): Promise<number> {
   await page.getByTestId(testId).first().waitFor();
-  return page.evaluate((id) => {
+  const handle = await page.waitForFunction((id) => {
     const canvas = document.querySelector<HTMLCanvasElement>(`[data-testid="${id}"]`);
     const ctx = canvas?.getContext('2d');
     if (!canvas || !ctx || canvas.width === 0 || canvas.height === 0) return 0;
     const data = ctx.getImageData(0, 0, canvas.width, canvas.height).data;
     let painted = 0;
     for (let i = 3; i < data.length; i += 4) if ((data[i] ?? 0) > 0) painted++;
-    return painted;
+    return painted > 0 ? painted : 0;
   }, testId);
+  return (await handle.jsonValue()) as number;
+}
+
+/** Opens the Trips screen and waits until its table has rows. */
+export async function showTrips(page: Page): Promise<void> {
+  await page.getByRole('tab', { name: /^Trips/ }).click();
+  await page.locator('table.trip-table > tbody').first().waitFor();
 }

@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_TRIPS_TEXT, DEMO_TRAVELER_COUNT } from '../../shared/demo/demo-workspace';
 import { pageErrors, startHarness, type Harness } from './harness';
-import { openApp, pasteTrips, waitForEngine } from './app-helpers';
+import { openApp, pasteTrips, showTrips, waitForEngine } from './app-helpers';
 
 let harness: Harness;
 beforeAll(async () => {
@@ -20,9 +20,9 @@ describe('intake', () => {
   it('pasting the demo shows every trip of every traveler', async () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
-    await expect(page.getByTestId('intake-summary').textContent()).resolves.toMatch(new RegExp(`^${demoTripKeys.size} trips, `));
+    await expect.poll(() => page.getByTestId('intake-summary').textContent()).toMatch(new RegExp(`^${demoTripKeys.size} trips, `));
     await harness.screenshot(page, 'app-intake-demo');
-    await page.getByRole('tab', { name: /^Trips/ }).click();
+    await showTrips(page);
     const groups = page.locator('table.trip-table > tbody');
     expect(await groups.count()).toBe(demoTripKeys.size);
     expect(demoTravelers).toHaveLength(DEMO_TRAVELER_COUNT);
@@ -56,10 +56,10 @@ describe('intake', () => {
     await page.waitForFunction(() => /^1 trip, 2 legs/.test(document.querySelector('[data-testid="intake-summary"]')?.textContent ?? ''));
     await page.keyboard.press('ControlOrMeta+Z');
     await waitForEngine(page);
-    await expect(area.inputValue()).resolves.toBe(base);
+    await expect.poll(() => area.inputValue()).toBe(base);
     await page.waitForFunction(() => /^1 trip, 1 leg /.test(document.querySelector('[data-testid="intake-summary"]')?.textContent ?? ''));
     await page.keyboard.press('ControlOrMeta+Shift+Z');
-    await expect(area.inputValue()).resolves.toContain('UA 1137');
+    await expect.poll(() => area.inputValue()).toContain('UA 1137');
   });
 });
 
@@ -88,7 +88,7 @@ describe('intake from files', () => {
     }, csv);
     await page.getByRole('status').filter({ hasText: 'Imported offsite.csv' }).waitFor();
     await page.getByTestId('intake-summary').filter({ hasText: /^1 trip, 2 legs read \(csv\)/ }).waitFor();
-    await expect(page.getByRole('textbox', { name: 'Trips text' }).inputValue()).resolves.toBe(csv);
+    await expect.poll(() => page.getByRole('textbox', { name: 'Trips text' }).inputValue()).toBe(csv);
   });
 
   it('imports an iCalendar file through the import dialog', async () => {

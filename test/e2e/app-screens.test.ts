@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_TRIPS_TEXT } from '../../shared/demo/demo-workspace';
 import { parseWorkspace } from '../../shared/workspace/format';
 import { pageErrors, startHarness, type Harness } from './harness';
-import { openApp, paintedPixels, pasteTrips, waitForEngine } from './app-helpers';
+import { openApp, paintedPixels, pasteTrips, showTrips, waitForEngine } from './app-helpers';
 
 let harness: Harness;
 beforeAll(async () => {
@@ -36,7 +36,7 @@ describe('options and group', () => {
     const page = await openApp(harness);
     await pasteTrips(page, DEMO_TRIPS_TEXT);
     await page.getByRole('tab', { name: /^Group/ }).click();
-    await expect(page.getByTestId('group-travelers').textContent()).resolves.toBe('30');
+    await expect.poll(() => page.getByTestId('group-travelers').textContent()).toBe('30');
     const expected = Number(await page.getByTestId('group-expected').textContent());
     expect(expected).toBeGreaterThan(0);
     expect(expected).toBeLessThan(30);
@@ -58,10 +58,10 @@ describe('settings', () => {
     await waitForEngine(page);
     await page.getByRole('radio', { name: 'Dark' }).check();
     await harness.screenshot(page, 'app-settings-dark');
-    await page.getByRole('tab', { name: /^Trips/ }).click();
+    await showTrips(page);
     await page.getByRole('combobox', { name: 'Airport' }).selectOption('ORD');
     const row = page.getByRole('row', { name: 'Connection at ORD for Ines Calloway' });
-    await expect(row.textContent()).resolves.toContain('1 h 10 min');
+    await expect.poll(() => row.textContent()).toContain('1 h 10 min');
     await expect(page.evaluate(() => document.documentElement.dataset.theme)).resolves.toBe('dark');
     await harness.screenshot(page, 'app-trips-dark');
   });
@@ -71,7 +71,7 @@ describe('settings', () => {
     await page.getByRole('tab', { name: 'Settings' }).click();
     await page.getByRole('button', { name: 'Add an override' }).click();
     await page.getByRole('textbox', { name: 'Airport, row 1' }).fill('O1');
-    await expect(page.getByRole('alert').filter({ hasText: 'Row 1' }).textContent()).resolves.toMatch(/Row 1: airport/);
+    await expect.poll(() => page.getByRole('alert').filter({ hasText: 'Row 1' }).textContent()).toMatch(/Row 1: airport/);
     await expect(page.getByRole('button', { name: 'Apply overrides' }).isDisabled()).resolves.toBe(true);
   });
 });
@@ -97,14 +97,14 @@ describe('workspaces in the page', () => {
     await chooser.setFiles(saved);
     await page.getByRole('status').filter({ hasText: /^Opened / }).waitFor();
     await waitForEngine(page);
-    await expect(target.inputValue()).resolves.toBe('95');
+    await expect.poll(() => target.inputValue()).toBe('95');
 
     const corrupt = path.join(dir, 'damaged.layline');
     await writeFile(corrupt, '{"format":"layline-workspace","version":1,"content":{"tripsText":"abc');
     const [chooser2] = await Promise.all([page.waitForEvent('filechooser'), page.getByRole('button', { name: 'Open…' }).click()]);
     await chooser2.setFiles(corrupt);
     await page.getByRole('alert').filter({ hasText: /damaged or is not a Layline workspace.*left as it is/ }).waitFor();
-    await expect(target.inputValue()).resolves.toBe('95');
+    await expect.poll(() => target.inputValue()).toBe('95');
     await harness.screenshot(page, 'app-corrupt-workspace');
   });
 
@@ -118,6 +118,6 @@ describe('workspaces in the page', () => {
     await page.getByRole('button', { name: 'Recover it' }).click();
     await waitForEngine(page);
     await page.getByRole('tab', { name: /^Intake/ }).click();
-    await expect(page.getByRole('textbox', { name: 'Trips text' }).inputValue()).resolves.toBe(text);
+    await expect.poll(() => page.getByRole('textbox', { name: 'Trips text' }).inputValue()).toBe(text);
   });
 });
