@@ -306,7 +306,9 @@ export function App({ api }: { api: LaylineApi }) {
   const selectedTrip = analysis && selection ? analysis.trips.find((t) => t.id === selection.tripId) : undefined;
   const selectedConnection = selectedTrip?.connections.find((c) => c.index === selection?.connectionIndex);
   const optionCount = useMemo(() => (analysis ? optionGroups(analysis.trips).length : 0), [analysis]);
-  const shownCurve = curve && curve.key === curveKey ? curve : null;
+  // While a new analysis redraws the same connection's curves, the previous ones stay up.
+  const sameConnection = (key: string) => selection !== null && key.endsWith(`/${selection.tripId}/${selection.connectionIndex}`);
+  const shownCurve = curve && (curve.key === curveKey || (sameConnection(curve.key) && curve.curve !== null)) ? curve : null;
 
   return (
     <div class="shell">
