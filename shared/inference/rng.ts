@@ -27,30 +27,35 @@ function splitmix32(seed: number): () => number {
 }
 
 class Xoshiro128 implements Rng {
-  private a: number;
-  private b: number;
-  private c: number;
-  private d: number;
+  // State in an Int32Array: plain number fields holding 32-bit values outside the small-integer
+  // range make V8 box a heap number on every step, which dominated simulation loops.
+  private readonly s = new Int32Array(4);
   private spareNormal = NaN;
 
   constructor(seed: number) {
     const next = splitmix32(seed);
-    this.a = next();
-    this.b = next();
-    this.c = next();
-    this.d = next();
-    if ((this.a | this.b | this.c | this.d) === 0) this.d = 1;
+    const s = this.s;
+    s[0] = next();
+    s[1] = next();
+    s[2] = next();
+    s[3] = next();
+    if ((s[0] | s[1] | s[2] | s[3]) === 0) s[3] = 1;
   }
 
   private nextUint32(): number {
-    const result = Math.imul(rotl(Math.imul(this.b, 5) >>> 0, 7), 9) >>> 0;
-    const t = (this.b << 9) >>> 0;
-    this.c ^= this.a;
-    this.d ^= this.b;
-    this.b ^= this.c;
-    this.a ^= this.d;
-    this.c ^= t;
-    this.d = rotl(this.d, 11);
+    const s = this.s;
+    const s0 = s[0]!;
+    const s1 = s[1]!;
+    const s2 = s[2]!;
+    const s3 = s[3]!;
+    const result = Math.imul(rotl(Math.imul(s1, 5), 7), 9) >>> 0;
+    const t = s1 << 9;
+    const c = s2 ^ s0;
+    const d = s3 ^ s1;
+    s[1] = s1 ^ c;
+    s[0] = s0 ^ d;
+    s[2] = c ^ t;
+    s[3] = rotl(d, 11);
     return result;
   }
 
