@@ -25,10 +25,10 @@ export const CANDIDATES: readonly Candidate[] = [
   {
     name: 'gumbel-3+month',
     family: 'gumbel-gumbel-lomax',
-    monthEffects: [0, 2, 4],
+    monthEffects: [0, 2, 4, 7],
     description:
       'typical Gumbel, wider disrupted Gumbel and a severe heavy-tailed Lomax (Pareto II) component per route, every parameter pooled hierarchically, ' +
-      'with calendar-month random effects on the typical and disrupted locations and the non-typical weight; a future month draws a new effect',
+      'with calendar-month random effects on the typical and disrupted locations, the non-typical weight and the severe share; a future month draws a new effect',
   },
 ];
 

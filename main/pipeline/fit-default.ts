@@ -8,6 +8,7 @@
 //   --candidate NAME    ship this candidate instead of the best by held-out log score
 //   --out FILE          write the bundle elsewhere (README is then left alone)
 //   --max-iterations N  L-BFGS iteration cap per fit
+//   --only NAME         re-evaluate only this candidate, keeping the other candidates' rows of the existing bundle
 import { readFile, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
@@ -67,6 +68,7 @@ async function main(): Promise<void> {
       out: { type: 'string' },
       'max-iterations': { type: 'string' },
       input: { type: 'string' },
+      only: { type: 'string' },
     },
     strict: true,
   });
@@ -85,21 +87,25 @@ async function main(): Promise<void> {
 
   let comparison: HeldOutReport[] = [];
   let previousSelection = '';
-  if (values['skip-comparison']) {
+  const only = values.only;
+  if (only !== undefined && !CANDIDATES.some((c) => c.name === only)) throw new Error(`unknown candidate ${only}; candidates: ${CANDIDATES.map((c) => c.name).join(', ')}`);
+  if (values['skip-comparison'] || only !== undefined) {
     try {
       const previous = validateBundle(JSON.parse(await readFile(outPath, 'utf8')));
       comparison = [...previous.metadata.comparison];
       previousSelection = previous.metadata.selection;
-      log(`keeping the comparison tables of the existing ${path.relative(process.cwd(), outPath)}`);
+      if (only !== undefined) comparison = comparison.filter((r) => r.candidate !== only);
+      log(`keeping the comparison tables of the existing ${path.relative(process.cwd(), outPath)}${only ? ` for every candidate but ${only}` : ''}`);
     } catch {
       log('no readable existing bundle: the comparison tables will be empty');
     }
-  } else {
+  }
+  if (!values['skip-comparison']) {
     const splits: SplitMasks[] = [
       { name: 'held-out days', train: selectByDay(flights, keep, (d) => !isHeldOutDay(d, firstDay)), test: selectByDay(flights, keep, (d) => isHeldOutDay(d, firstDay)), monthsSeen: true },
       { name: 'future month', train: selectByDay(flights, keep, (d) => monthOfDay(d) <= 5), test: selectByDay(flights, keep, (d) => monthOfDay(d) === 6), monthsSeen: false },
     ];
-    for (const candidate of CANDIDATES) {
+    for (const candidate of CANDIDATES.filter((c) => only === undefined || c.name === only)) {
       for (const split of splits) {
         log(`fitting ${candidate.name} for the ${split.name} split`);
         const r = await evaluateCandidate(flights, split, candidate, {
@@ -118,7 +124,7 @@ async function main(): Promise<void> {
   if (!chosen) throw new Error(`unknown candidate ${chosenName}; candidates: ${CANDIDATES.map((c) => c.name).join(', ')}`);
   const selection = values.candidate
     ? `${chosen.name}, chosen by hand (--candidate).`
-    : comparison.length && !values['skip-comparison']
+    : comparison.length && !values['skip-comparison'] && comparison.some((r) => r.candidate === chosenName)
       ? `${chosen.name}, by the rule: ${SELECTION_RULE}.`
       : previousSelection || `${chosen.name}.`;
 
