@@ -25,7 +25,7 @@ export default defineConfig({
           ['tz-sydney', 'Australia/Sydney'],
         ] as const
       ).map(([name, tz]) => ({
-        extends: true,
+        extends: true as const,
         test: {
           name,
           include: ['test/shared/time/**/*.test.ts', 'test/shared/itinerary/**/*.test.ts'],
