@@ -2,7 +2,7 @@
 import { ESLint } from 'eslint';
 import path from 'node:path';
 import ts from 'typescript';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { describe, expect, it } from 'vitest';
 
@@ -50,8 +50,12 @@ describe("shared/'s own tsconfig", () => {
     const dir = mkdtempSync(path.join(tmpdir(), 'layline-layering-'));
     const file = path.join(dir, 'probe.ts');
     writeFileSync(file, source);
-    const program = ts.createProgram([file], config.options);
-    return ts.getPreEmitDiagnostics(program).map((d) => ts.flattenDiagnosticMessageText(d.messageText, '\n'));
+    try {
+      const program = ts.createProgram([file], config.options);
+      return ts.getPreEmitDiagnostics(program).map((d) => ts.flattenDiagnosticMessageText(d.messageText, '\n'));
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   }
 
   it('has no DOM: window does not exist', () => {
