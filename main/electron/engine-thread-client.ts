@@ -36,6 +36,7 @@ export function createThreadEngine(workerFile: string, makeWorker: (file: string
     analyzeTrips: async (text, settings) => parseResult('analyzeTrips', await connect().call(channelFor('analyzeTrips'), [text, settings])),
     connectionCurve: async (analysisId, tripId, index) => parseResult('connectionCurve', await connect().call(channelFor('connectionCurve'), [analysisId, tripId, index])),
     getBundleInfo: async () => parseResult('getBundleInfo', await connect().call(channelFor('getBundleInfo'), [])),
+    exportReport: async (analysisId, kind) => parseResult('exportReport', await connect().call(channelFor('exportReport'), [analysisId, kind])),
     close: async () => {
       await worker?.terminate();
     },

@@ -2,6 +2,7 @@
 // switches between the screens. Logic lives in renderer/state (pure) and shared/.
 import { useCallback, useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import type { BundleView, ConnectionCurve } from '../../shared/api/analysis-schema';
+import type { ReportExportKind } from '../../shared/api/contract';
 import type { AppEvent, AppInfo, LaylineApi, MenuCommand } from '../../shared/api/contract';
 import { DEMO_ORGANISATION, DEMO_SCENARIO, DEMO_WORKSPACE } from '../../shared/demo/demo-workspace';
 import { EMPTY_WORKSPACE, type WorkspaceContent } from '../../shared/workspace/format';
@@ -17,7 +18,7 @@ import { OptionsView, optionGroups } from '../views/options-view';
 import { SettingsView } from '../views/settings-view';
 import { TargetInput } from '../views/target-input';
 import { TripsView, type Selection } from '../views/trips-view';
-import { clearPageAutosave, downloadWorkspace, isFirstStart, pickFile, readPageAutosave, readTextFile, readWorkspaceUpload, TRIP_FILE_TYPES, writePageAutosave } from './page-files';
+import { clearPageAutosave, downloadText, downloadWorkspace, isFirstStart, pickFile, readPageAutosave, readTextFile, readWorkspaceUpload, TRIP_FILE_TYPES, writePageAutosave } from './page-files';
 import { count } from './format';
 import { useAnalysis } from './use-analysis';
 
@@ -63,6 +64,10 @@ export function App({ api }: { api: LaylineApi }) {
   const dirty = isDirty(doc);
   const analysisState = useAnalysis(api, content.tripsText, content.settings);
   const { analysis } = analysisState;
+  // The export buttons act on the analysis on screen when clicked, not the one of the last render.
+  const analysisRef = useRef(analysis);
+  analysisRef.current = analysis;
+  const exportable = Boolean(analysis && !analysis.scoringError && analysis.trips.length > 0);
   const docRef = useRef(doc);
   docRef.current = doc;
 
@@ -215,6 +220,18 @@ export function App({ api }: { api: LaylineApi }) {
     } else if (r.status === 'failed') setNotice({ kind: 'error', text: r.message });
   };
 
+  const exportReport = async (kind: ReportExportKind) => {
+    const current = analysisRef.current;
+    if (!current || current.scoringError) return;
+    try {
+      const file = await api.exportReport(current.analysisId, kind);
+      downloadText(file.text, file.mimeType, file.fileName);
+      setNotice({ kind: 'info', text: `${file.fileName} was handed to the browser's download. Its figures are estimates from historical data, not guarantees.` });
+    } catch (err) {
+      setNotice({ kind: 'error', text: `Could not export: ${message(err)}` });
+    }
+  };
+
   const confirmDiscard = () => !isDirty(docRef.current) || confirm('The workspace has unsaved changes. Discard them?');
 
   const open = async (path: string | null = null) => {
@@ -340,6 +357,17 @@ export function App({ api }: { api: LaylineApi }) {
             Redo
           </button>
           <TargetInput compact target={content.settings.targetProbability} onTarget={(t) => setSettings({ targetProbability: t }, 'target')} />
+          <span role="group" aria-label="Export">
+            <button type="button" onClick={() => void exportReport('manager')} disabled={!exportable}>
+              Manager report
+            </button>
+            <button type="button" onClick={() => void exportReport('briefings')} disabled={!exportable}>
+              Briefings
+            </button>
+            <button type="button" onClick={() => void exportReport('connections')} disabled={!exportable}>
+              Connections CSV
+            </button>
+          </span>
           <span class="engine-state" role="status" aria-live="polite" data-testid="engine-state">
             {analysisState.busy ? 'Scoring…' : analysis ? `Scored in ${Math.round(analysis.parseMs + analysis.scoreMs)} ms` : ''}
           </span>

@@ -7,11 +7,17 @@ const AUTOSAVE_KEY = 'layline.autosave.v1';
 const STARTED_KEY = 'layline.started';
 
 export function downloadWorkspace(content: WorkspaceContent, fileName: string): void {
-  const blob = new Blob([serializeWorkspace(content, new Date())], { type: 'application/json' });
+  const name = fileName.endsWith(`.${WORKSPACE_EXTENSION}`) ? fileName : `${fileName}.${WORKSPACE_EXTENSION}`;
+  downloadText(serializeWorkspace(content, new Date()), 'application/json', name);
+}
+
+/** Hands a text file to the browser's download (in Electron, its save dialog). */
+export function downloadText(text: string, mimeType: string, fileName: string): void {
+  const blob = new Blob([text], { type: `${mimeType};charset=utf-8` });
   const url = URL.createObjectURL(blob);
   const a = document.createElement('a');
   a.href = url;
-  a.download = fileName.endsWith(`.${WORKSPACE_EXTENSION}`) ? fileName : `${fileName}.${WORKSPACE_EXTENSION}`;
+  a.download = fileName;
   document.body.append(a);
   a.click();
   a.remove();

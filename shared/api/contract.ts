@@ -66,6 +66,13 @@ export const RecoveryOfferSchema = v.nullable(
 );
 export type RecoveryOffer = v.InferOutput<typeof RecoveryOfferSchema>;
 
+/** What the page can export from an analysis. */
+export const REPORT_EXPORT_KINDS = ['manager', 'briefings', 'connections'] as const;
+export type ReportExportKind = (typeof REPORT_EXPORT_KINDS)[number];
+
+export const ReportExportSchema = v.object({ fileName: v.string(), mimeType: v.picklist(['text/html', 'text/csv']), text: v.string() });
+export type ReportExport = v.InferOutput<typeof ReportExportSchema>;
+
 /**
  * One request: a strict tuple schema for its arguments and a schema for what it resolves to.
  *
@@ -89,6 +96,11 @@ export const apiContract = {
   analyzeTrips: request(v.strictTuple([TripsText, AnalysisSettingsSchema]), AnalysisSchema),
   /** P(make) against layover and the margin distribution for one connection of an earlier analysis. */
   connectionCurve: request(v.strictTuple([Id, Id, v.pipe(v.number(), v.integer(), v.minValue(0), v.maxValue(100))]), ConnectionCurveSchema),
+  /**
+   * A report of an earlier analysis as a finished file's text: the manager report or the
+   * travellers' briefings as standalone HTML, or the connections CSV (shared/report).
+   */
+  exportReport: request(v.strictTuple([Id, v.picklist(REPORT_EXPORT_KINDS)]), ReportExportSchema),
   /** The posterior bundle in use and its provenance, or a message saying why none is available. */
   getBundleInfo: request(v.strictTuple([]), v.object({ bundle: v.nullable(BundleViewSchema), error: v.nullable(v.string()) })),
 

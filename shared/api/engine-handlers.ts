@@ -9,6 +9,9 @@ import type { MakeCurve, MarginDistribution, MctRule, ScoreOptions, ScoredTrips 
 import type { AnalysisSettings } from '../workspace/settings';
 import type { Analysis, BundleView, ConnectionCurve } from './analysis-schema';
 import { groupView, scoredTripView, unscoredTripViews } from './trip-views';
+import type { ReportExport, ReportExportKind } from './contract';
+import { connectionsCsv, reportDocument } from '../report/build-report';
+import { bundleDetailsOf } from '../report/bundle-details';
 
 /** The engines the handlers call; wired to the real ones in engine-deps.ts. */
 export interface EngineDeps {
@@ -25,6 +28,7 @@ export interface EngineHandlers {
   analyzeTrips(text: string, settings: AnalysisSettings): Promise<Analysis>;
   connectionCurve(analysisId: string, tripId: string, connectionIndex: number): Promise<ConnectionCurve>;
   getBundleInfo(): Promise<{ bundle: BundleView | null; error: string | null }>;
+  exportReport(analysisId: string, kind: ReportExportKind): Promise<ReportExport>;
 }
 
 /** Analyses kept for follow-up curve requests; the page only asks about recent ones. */
@@ -144,6 +148,17 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
         margin: rebinMargin(margin, MARGIN_BIN_MINUTES),
         binMinutes: MARGIN_BIN_MINUTES,
       };
+    },
+
+    async exportReport(analysisId, kind) {
+      const entry = kept.get(analysisId);
+      if (!entry) throw new Error(`analysis ${analysisId} is no longer kept; analyse the trips again`);
+      // nowMs is a timer for durations (performance.now in the hosts), not a wall clock.
+      const stamp = new Date().toISOString();
+      const day = stamp.slice(0, 10);
+      if (kind === 'connections') return { fileName: `layline-connections-${day}.csv`, mimeType: 'text/csv', text: connectionsCsv(entry.scored) };
+      const document = reportDocument(entry.scored, kind, { generatedAt: stamp, bundleDetails: bundleDetailsOf(await getSource()) });
+      return { fileName: `layline-${kind === 'manager' ? 'report' : 'briefings'}-${day}.html`, mimeType: 'text/html', text: document.html };
     },
 
     async getBundleInfo() {

@@ -1,5 +1,6 @@
 // The engine requests, with the real parser and risk engine over the risk tests' synthetic
 // posterior source (the real bundle's figures are checked by its own tests).
+import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import { createEngineHandlers, rebinMargin } from '../../../shared/api/engine-handlers';
 import { realEngineDeps } from '../../../shared/api/engine-deps';
@@ -100,5 +101,29 @@ describe('connectionCurve', () => {
     // Bars are (m, m + 5]: -2, -1 and 0 fall in (-5, 0], a miss; 1 to 5 in (0, 5].
     expect(bars.map((b) => b.marginMinutes)).toEqual([-5, 0]);
     expect(bars.map((b) => Number(b.probability.toFixed(6)))).toEqual([0.4, 0.6]);
+  });
+});
+
+describe('exportReport', () => {
+  it('exports the manager report, the briefings and the connections CSV of an analysis', async () => {
+    const e = engine();
+    const a = await e.analyzeTrips(DEMO_TRIPS_TEXT, DEFAULT_ANALYSIS_SETTINGS);
+    const manager = await e.exportReport(a.analysisId, 'manager');
+    expect(manager.mimeType).toBe('text/html');
+    expect(manager.fileName).toMatch(/^layline-report-\d{4}-\d{2}-\d{2}\.html$/);
+    expect(manager.text).toMatch(/^<!doctype html>/i);
+    expect(manager.text).toMatch(/not a guarantee/i);
+    const briefings = await e.exportReport(a.analysisId, 'briefings');
+    expect(briefings.fileName).toMatch(/^layline-briefings-/);
+    expect(briefings.text).not.toBe(manager.text);
+    const csv = await e.exportReport(a.analysisId, 'connections');
+    expect(csv.mimeType).toBe('text/csv');
+    // Parsed with csv-parse (RFC 4180): one record per connection of the analysis.
+    const records = parse(csv.text, { columns: true }) as Record<string, string>[];
+    expect(records.length).toBe(a.trips.reduce((n, t) => n + t.connections.length, 0));
+  });
+
+  it('refuses an analysis it no longer keeps', async () => {
+    await expect(engine().exportReport('999', 'manager')).rejects.toThrow(/no longer kept/);
   });
 });
