@@ -15,6 +15,7 @@ import { hardenWebContents } from './harden';
 import { fileSenderCheck, registerApiHandlers } from './ipc';
 import { buildMenuTemplate } from './menu';
 import { createShellHandlers } from './shell-handlers';
+import { printReportInElectron } from '../report/electron-pdf';
 import { mainWindowOptions } from './window-options';
 
 const rendererDir = path.join(__dirname, '..', 'renderer');
@@ -148,6 +149,12 @@ app.whenReady().then(async () => {
       openExternal: (url) => shell.openExternal(url),
       onDirty: (dirty) => guard?.setDirty(dirty),
       onSaveNotDone: () => guard?.saveDidNotHappen(),
+      reportHtml: (analysisId, kind) => engine.exportReport(analysisId, kind),
+      chooseReportPdfPath: async (suggestedName) => {
+        const r = await showSave({ title: 'Save the report as PDF', defaultPath: path.join(app.getPath('documents'), suggestedName), filters: [{ name: 'PDF', extensions: ['pdf'] }] });
+        return r.canceled ? null : (r.filePath ?? null);
+      },
+      printPdf: (html, paper, title) => printReportInElectron(html, paper, title),
       onRecentChanged: (paths) => {
         const latest = paths[0];
         if (latest) app.addRecentDocument(latest);

@@ -5,6 +5,9 @@ import type { ShellHandlers } from '../../shared/api/handlers';
 import type { ThemeChoice } from '../../shared/workspace/settings';
 import type { WorkspaceSession } from '../workspace/workspace-session';
 import type { AppEventQueue } from './app-events';
+import type { ReportExport } from '../../shared/api/contract';
+import type { PaperSize } from '../../shared/report/print-layout';
+import { writeFileAtomic } from '../workspace/atomic-write';
 import { isAllowedExternal } from './external-links';
 
 export interface ShellDeps {
@@ -22,6 +25,12 @@ export interface ShellDeps {
   readonly onSaveNotDone: () => void;
   /** Called after the recent list changes (to rebuild the menu). */
   readonly onRecentChanged: (paths: string[]) => void;
+  /** A report of an analysis as HTML, from the engine (its exportReport request). */
+  readonly reportHtml: (analysisId: string, kind: 'manager' | 'briefings') => Promise<ReportExport>;
+  /** Asks where to save a PDF; null when the user cancels. */
+  readonly chooseReportPdfPath: (suggestedName: string) => Promise<string | null>;
+  /** Prints standalone HTML to PDF bytes (main/report/electron-pdf.ts in the app). */
+  readonly printPdf: (html: string, paper: PaperSize, title: string) => Promise<Uint8Array>;
 }
 
 export function createShellHandlers(deps: ShellDeps): ShellHandlers {
@@ -75,6 +84,18 @@ export function createShellHandlers(deps: ShellDeps): ShellHandlers {
     },
     setTheme: async (theme) => deps.setTheme(theme),
     nextAppEvent: () => deps.events.next(),
+    exportReportPdf: async (analysisId, kind, paper) => {
+      try {
+        const report = await deps.reportHtml(analysisId, kind);
+        const target = await deps.chooseReportPdfPath(report.fileName.replace(/\.html$/, '.pdf'));
+        if (target === null) return { status: 'cancelled' };
+        const pdf = await deps.printPdf(report.text, paper, report.title);
+        await writeFileAtomic(target, pdf);
+        return { status: 'saved', filePath: target };
+      } catch (err) {
+        return { status: 'failed', message: `The PDF was not written: ${err instanceof Error ? err.message : String(err)}` };
+      }
+    },
     openExternal: async (url) => {
       if (!isAllowedExternal(url)) return false;
       await deps.openExternal(url);

@@ -232,6 +232,15 @@ export function App({ api }: { api: LaylineApi }) {
     }
   };
 
+  const [paper, setPaper] = useState<'A4' | 'Letter'>('A4');
+  const exportPdf = async (kind: 'manager' | 'briefings') => {
+    const current = analysisRef.current;
+    if (!current || current.scoringError) return;
+    const r = await api.exportReportPdf(current.analysisId, kind, paper).catch((err: unknown) => ({ status: 'failed' as const, message: message(err) }));
+    if (r.status === 'saved') setNotice({ kind: 'info', text: `Saved ${r.filePath}. Its figures are estimates from historical data, not guarantees.` });
+    else if (r.status === 'failed') setNotice({ kind: 'error', text: r.message });
+  };
+
   const confirmDiscard = () => !isDirty(docRef.current) || confirm('The workspace has unsaved changes. Discard them?');
 
   const open = async (path: string | null = null) => {
@@ -367,6 +376,20 @@ export function App({ api }: { api: LaylineApi }) {
             <button type="button" onClick={() => void exportReport('connections')} disabled={!exportable}>
               Connections CSV
             </button>
+            {desktop && (
+              <>
+                <button type="button" onClick={() => void exportPdf('manager')} disabled={!exportable}>
+                  Manager PDF
+                </button>
+                <button type="button" onClick={() => void exportPdf('briefings')} disabled={!exportable}>
+                  Briefings PDF
+                </button>
+                <select aria-label="Paper size" value={paper} onChange={(e) => setPaper(e.currentTarget.value === 'Letter' ? 'Letter' : 'A4')}>
+                  <option value="A4">A4</option>
+                  <option value="Letter">US Letter</option>
+                </select>
+              </>
+            )}
           </span>
           <span class="engine-state" role="status" aria-live="polite" data-testid="engine-state">
             {analysisState.busy ? 'Scoring…' : analysis ? `Scored in ${Math.round(analysis.parseMs + analysis.scoreMs)} ms` : ''}

@@ -70,8 +70,19 @@ export type RecoveryOffer = v.InferOutput<typeof RecoveryOfferSchema>;
 export const REPORT_EXPORT_KINDS = ['manager', 'briefings', 'connections'] as const;
 export type ReportExportKind = (typeof REPORT_EXPORT_KINDS)[number];
 
-export const ReportExportSchema = v.object({ fileName: v.string(), mimeType: v.picklist(['text/html', 'text/csv']), text: v.string() });
+export const ReportExportSchema = v.object({ title: v.string(), fileName: v.string(), mimeType: v.picklist(['text/html', 'text/csv']), text: v.string() });
 export type ReportExport = v.InferOutput<typeof ReportExportSchema>;
+
+/** Paper sizes the desktop app prints reports on. */
+export const PAPER_SIZES = ['A4', 'Letter'] as const;
+
+export const ExportedPdfSchema = v.variant('status', [
+  v.object({ status: v.literal('saved'), filePath: v.string() }),
+  v.object({ status: v.literal('cancelled') }),
+  /** Nothing was written; `message` says why. */
+  v.object({ status: v.literal('failed'), message: v.string() }),
+]);
+export type ExportedPdf = v.InferOutput<typeof ExportedPdfSchema>;
 
 /**
  * One request: a strict tuple schema for its arguments and a schema for what it resolves to.
@@ -105,6 +116,11 @@ export const apiContract = {
   getBundleInfo: request(v.strictTuple([]), v.object({ bundle: v.nullable(BundleViewSchema), error: v.nullable(v.string()) })),
 
   // Files and the desktop shell (Electron only; the page uses the browser's own file handling).
+  /**
+   * Print the manager report or the briefings of an earlier analysis to PDF with Electron's
+   * printToPDF, after asking where to save it (desktop only; the page exports HTML).
+   */
+  exportReportPdf: request(v.strictTuple([Id, v.picklist(['manager', 'briefings']), v.picklist(PAPER_SIZES)]), ExportedPdfSchema),
   /** Open a workspace: null asks with the native dialog; a path must be one of the recent documents. */
   openWorkspace: request(v.strictTuple([v.nullable(FilePath)]), OpenedWorkspaceSchema),
   /**

@@ -156,9 +156,9 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
       // nowMs is a timer for durations (performance.now in the hosts), not a wall clock.
       const stamp = new Date().toISOString();
       const day = stamp.slice(0, 10);
-      if (kind === 'connections') return { fileName: `layline-connections-${day}.csv`, mimeType: 'text/csv', text: connectionsCsv(entry.scored) };
+      if (kind === 'connections') return { title: 'Connections', fileName: `layline-connections-${day}.csv`, mimeType: 'text/csv', text: connectionsCsv(entry.scored) };
       const document = reportDocument(entry.scored, kind, { generatedAt: stamp, bundleDetails: bundleDetailsOf(await getSource()) });
-      return { fileName: `layline-${kind === 'manager' ? 'report' : 'briefings'}-${day}.html`, mimeType: 'text/html', text: document.html };
+      return { title: document.title, fileName: `layline-${kind === 'manager' ? 'report' : 'briefings'}-${day}.html`, mimeType: 'text/html', text: document.html };
     },
 
     async getBundleInfo() {

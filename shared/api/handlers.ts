@@ -44,6 +44,7 @@ export function createPageShellHandlers(): ShellHandlers {
     setTheme: onlyInDesktop('setTheme'),
     nextAppEvent: onlyInDesktop('nextAppEvent'),
     openExternal: onlyInDesktop('openExternal'),
+    exportReportPdf: onlyInDesktop('exportReportPdf'),
   };
 }
 

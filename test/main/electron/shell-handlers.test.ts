@@ -29,6 +29,9 @@ function shell(overrides: Partial<ShellDeps> = {}) {
     onDirty: vi.fn(),
     onSaveNotDone: vi.fn(),
     onRecentChanged: vi.fn(),
+    reportHtml: vi.fn(async (_id: string, kind: 'manager' | 'briefings') => ({ title: `The ${kind} report`, fileName: `layline-${kind}-2026-02-01.html`, mimeType: 'text/html' as const, text: '<!doctype html><p>report</p>' })),
+    chooseReportPdfPath: vi.fn(async (name: string) => path.join(dir, name)),
+    printPdf: vi.fn(async () => new TextEncoder().encode('%PDF-1.7 fake bytes')),
     ...overrides,
   };
   return { handlers: createShellHandlers(deps), deps, session };
@@ -96,5 +99,36 @@ describe('shell handlers', () => {
     expect(deps.openExternal).toHaveBeenCalledTimes(1);
     await handlers.setDocumentState({ dirty: true });
     expect(deps.onDirty).toHaveBeenCalledWith(true);
+  });
+});
+
+describe('exportReportPdf', () => {
+  it('prints the engine\'s report HTML and writes the PDF where the user chose', async () => {
+    const { handlers, deps } = shell();
+    const r = await handlers.exportReportPdf('3', 'manager', 'Letter');
+    const target = path.join(dir, 'layline-manager-2026-02-01.pdf');
+    expect(r).toEqual({ status: 'saved', filePath: target });
+    expect(deps.reportHtml).toHaveBeenCalledWith('3', 'manager');
+    expect(deps.printPdf).toHaveBeenCalledWith('<!doctype html><p>report</p>', 'Letter', 'The manager report');
+    expect(await readFile(target, 'utf8')).toBe('%PDF-1.7 fake bytes');
+  });
+
+  it('writes nothing when the user cancels the dialog', async () => {
+    const { handlers, deps } = shell({ chooseReportPdfPath: vi.fn(async () => null) });
+    expect(await handlers.exportReportPdf('3', 'briefings', 'A4')).toEqual({ status: 'cancelled' });
+    expect(deps.printPdf).not.toHaveBeenCalled();
+  });
+
+  it('reports a failed print and leaves an existing file untouched', async () => {
+    const target = path.join(dir, 'layline-briefings-2026-02-01.pdf');
+    await writeFile(target, 'the earlier PDF');
+    const { handlers } = shell({
+      printPdf: vi.fn(async () => {
+        throw new Error('renderer crashed');
+      }),
+    });
+    const r = await handlers.exportReportPdf('3', 'briefings', 'A4');
+    expect(r).toEqual({ status: 'failed', message: expect.stringMatching(/not written: renderer crashed/) });
+    expect(await readFile(target, 'utf8')).toBe('the earlier PDF');
   });
 });
