@@ -2,8 +2,8 @@
 // (chromiumPrinter in the CLI, printReportInElectron in the app), so the app never loads the
 // CLI's browser driver. The format follows the file's extension. Writes go to a temporary file
 // renamed into place, so an interrupted export never leaves half a report where the old one was.
-import { rename, rm, writeFile } from 'node:fs/promises';
 import path from 'node:path';
+import { writeFileAtomic } from '../workspace/atomic-write';
 import { connectionsCsv, reportDocument, type ReportKind } from '../../shared/report/build-report';
 import type { PaperSize } from '../../shared/report/print-layout';
 import type { ReportOptions } from '../../shared/report/report-model';
@@ -31,33 +31,22 @@ export interface WriteReportOptions {
   readonly report: ReportOptions;
 }
 
-async function writeAtomically(outPath: string, data: string | Uint8Array): Promise<void> {
-  const tmp = path.join(path.dirname(outPath), `.${path.basename(outPath)}.${process.pid}.tmp`);
-  try {
-    await writeFile(tmp, data);
-    await rename(tmp, outPath);
-  } catch (err) {
-    await rm(tmp, { force: true });
-    throw err;
-  }
-}
-
 /** Writes the report and resolves with its format and size in bytes. */
 export async function writeReport(scored: ScoredTrips, outPath: string, options: WriteReportOptions): Promise<{ format: ReportFileFormat; bytes: number }> {
   const format = reportFormatFor(outPath);
   if (format === null) throw new Error(`cannot tell the format of ${outPath}: name it .pdf, .html or .csv`);
   if (format === 'csv') {
     const csv = connectionsCsv(scored);
-    await writeAtomically(outPath, csv);
+    await writeFileAtomic(outPath, csv);
     return { format, bytes: Buffer.byteLength(csv) };
   }
   const doc = reportDocument(scored, options.kind, options.report);
   if (format === 'html') {
-    await writeAtomically(outPath, doc.html);
+    await writeFileAtomic(outPath, doc.html);
     return { format, bytes: Buffer.byteLength(doc.html) };
   }
   if (!options.printPdf) throw new Error(`no PDF printer was given for ${outPath}`);
   const pdf = await options.printPdf(doc.html, options.paper, doc.title);
-  await writeAtomically(outPath, pdf);
+  await writeFileAtomic(outPath, pdf);
   return { format, bytes: pdf.byteLength };
 }
