@@ -157,8 +157,8 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
       const stamp = new Date().toISOString();
       const day = stamp.slice(0, 10);
       if (kind === 'connections') return { title: 'Connections', fileName: `layline-connections-${day}.csv`, mimeType: 'text/csv', text: connectionsCsv(entry.scored) };
-      const document = reportDocument(entry.scored, kind, { generatedAt: stamp, bundleDetails: bundleDetailsOf(await getSource()) });
-      return { title: document.title, fileName: `layline-${kind === 'manager' ? 'report' : 'briefings'}-${day}.html`, mimeType: 'text/html', text: document.html };
+      const doc = reportDocument(entry.scored, kind, { generatedAt: stamp, bundleDetails: bundleDetailsOf(await getSource()) });
+      return { title: doc.title, fileName: `layline-${kind === 'manager' ? 'report' : 'briefings'}-${day}.html`, mimeType: 'text/html', text: doc.html };
     },
 
     async getBundleInfo() {
