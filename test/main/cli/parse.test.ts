@@ -3,20 +3,14 @@ import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseCommand } from '../../../main/cli/commands/parse';
-import { CliFailure, type CliIo } from '../../../main/cli/io';
+import { CliFailure } from '../../../main/cli/io';
 import { runCli } from '../../../main/cli/run';
+import { captureIo, type CapturedIo } from './capture-io';
 
 const fixtures = path.join(__dirname, '..', '..', 'fixtures', 'itinerary');
 
-function io(stdin = ''): CliIo & { out: string[]; err: string[] } {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    out,
-    err,
-    stdout: (t) => out.push(t),
-    stderr: (t) => err.push(t),
-    stderrIsTty: false,
+function io(stdin = ''): CapturedIo {
+  return captureIo({
     cwd: fixtures,
     readInput: async (p) => {
       if (p === '-') return stdin;
@@ -26,7 +20,7 @@ function io(stdin = ''): CliIo & { out: string[]; err: string[] } {
         throw new CliFailure(`no such file: ${p}`);
       }
     },
-  };
+  });
 }
 
 describe('layline parse', () => {

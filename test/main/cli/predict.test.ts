@@ -2,11 +2,11 @@ import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { CliIo } from '../../../main/cli/io';
 import { nodeIo } from '../../../main/cli/node-io';
 import { runCli } from '../../../main/cli/run';
 import { predictCommand } from '../../../main/cli/commands/predict';
 import { syntheticBundle } from '../../shared/delay/bundle/synthetic-bundle';
+import { captureIo, type CapturedIo } from './capture-io';
 
 let dir: string;
 let bundlePath: string;
@@ -20,11 +20,8 @@ afterAll(async () => {
   await rm(dir, { recursive: true, force: true });
 });
 
-function capture(): CliIo & { out: string[]; err: string[] } {
-  const real = nodeIo();
-  const out: string[] = [];
-  const err: string[] = [];
-  return { ...real, out, err, stdout: (t) => out.push(t), stderr: (t) => err.push(t), stderrIsTty: false };
+function capture(): CapturedIo {
+  return captureIo({ ...nodeIo(), stderrIsTty: false });
 }
 
 async function predict(args: string[]) {

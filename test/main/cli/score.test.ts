@@ -1,34 +1,26 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { CliIo } from '../../../main/cli/io';
 import { createScoreCommand, scoreCommand } from '../../../main/cli/commands/score';
 import { runCli } from '../../../main/cli/run';
 import { syntheticSource } from '../../fixtures/risk/synthetic-source';
+import { captureIo, type CapturedIo } from './capture-io';
 
 const tripsCsv = readFileSync(new URL('../../fixtures/risk/summit-trips.csv', import.meta.url), 'utf8');
 
-function captureIo(files: Record<string, string>): CliIo & { out: string[]; err: string[] } {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    out,
-    err,
-    stdout: (t) => out.push(t),
-    stderr: (t) => err.push(t),
-    stderrIsTty: false,
-    cwd: '/',
+function filesIo(files: Record<string, string>): CapturedIo {
+  return captureIo({
     readInput: async (p) => {
       const text = files[p];
       if (text === undefined) throw new Error(`no such file: ${p}`);
       return text;
     },
-  };
+  });
 }
 
 const score = createScoreCommand(async () => syntheticSource());
 
 async function run(args: string[], files: Record<string, string> = { 'trips.csv': tripsCsv }) {
-  const io = captureIo(files);
+  const io = filesIo(files);
   const code = await runCli(['score', ...args], io, [score]);
   return { code, out: io.out.join(''), err: io.err.join('') };
 }
@@ -122,14 +114,14 @@ describe('layline score', () => {
   });
 
   it('refuses a bundle file that is not a posterior bundle, naming it', async () => {
-    const io = captureIo({ 'trips.csv': tripsCsv, 'bad.json': '{"format": "something else"}' });
+    const io = filesIo({ 'trips.csv': tripsCsv, 'bad.json': '{"format": "something else"}' });
     const code = await runCli(['score', 'trips.csv', '--bundle', 'bad.json'], io, [scoreCommand]);
     expect(code).toBe(1);
     expect(io.err.join('')).toMatch(/bad posterior bundle bad\.json/);
   });
 
   it('scores against the bundled posteriors by default (BTS on-time sample), with their provenance', async () => {
-    const io = captureIo({ 'trips.csv': tripsCsv });
+    const io = filesIo({ 'trips.csv': tripsCsv });
     const code = await runCli(['score', 'trips.csv', '--format', 'json'], io, [scoreCommand]);
     expect(code).toBe(0);
     const json = JSON.parse(io.out.join(''));

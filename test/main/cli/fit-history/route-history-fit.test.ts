@@ -3,33 +3,21 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { isRouteHistoryFit, runRouteHistoryFit } from '../../../../main/cli/fit-history/route-history-fit';
-import { CliFailure, UsageError, type CliIo } from '../../../../main/cli/io';
+import { CliFailure, UsageError } from '../../../../main/cli/io';
 import { readHistoryFile } from '../../../../main/history/read-history-file';
 import { writeSyntheticBtsCsv } from '../../../../main/history/synthetic-history';
 import { validateBundle } from '../../../../shared/delay/bundle/bundle-schema';
 import { dayNumber } from '../../../../shared/history/cells';
 import { fitRouteHistory } from '../../../../shared/history/history-fit';
+import { captureIo as captureCliIo, type CapturedIo } from '../capture-io';
 
 let dir: string;
 let history: string;
 let like: string;
 const OLD_BUNDLE = '{"an": "existing bundle that must survive"}';
 
-function captureIo(onStderr?: (text: string) => void): CliIo & { out: string[]; err: string[] } {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    out,
-    err,
-    stdout: (t) => out.push(t),
-    stderr: (t) => {
-      err.push(t);
-      onStderr?.(t);
-    },
-    stderrIsTty: false,
-    cwd: dir,
-    readInput: async () => '',
-  };
+function captureIo(onStderr?: (text: string) => void): CapturedIo {
+  return captureCliIo({ cwd: dir, readInput: async () => '' }, onStderr);
 }
 
 async function leftovers(): Promise<string[]> {
