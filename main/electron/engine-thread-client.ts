@@ -1,14 +1,18 @@
-// The main process's handle on the engine thread: the engine requests of the contract,
-// forwarded over the thread's message port. A thread that dies is restarted on the next call.
+// The main process's handle on the engine thread: the engine and history requests of the
+// contract, forwarded over the thread's message port and checked on return. A thread that dies
+// is restarted on the next call.
 import { Worker } from 'node:worker_threads';
-import { channelFor } from '../../shared/api/contract';
-import type { EngineHandlers } from '../../shared/api/engine-handlers';
-import { parseResult } from '../../shared/api/contract';
+import { channelFor, parseResult, type ApiHandlers } from '../../shared/api/contract';
+import { ENGINE_REQUEST_NAMES, type EngineHandlers } from '../../shared/api/engine-handlers';
+import { HISTORY_REQUEST_NAMES, type HistoryHandlers } from '../../shared/api/history-handlers';
 import { createMessageClient, type MessageClient, type WorkerReply } from '../../shared/api/message-channel';
 
-export interface ThreadEngine extends EngineHandlers {
-  readonly close: () => Promise<void>;
-}
+export type ThreadEngine = EngineHandlers &
+  HistoryHandlers & {
+    readonly close: () => Promise<void>;
+  };
+
+const FORWARDED = [...ENGINE_REQUEST_NAMES, ...HISTORY_REQUEST_NAMES] as const;
 
 export function createThreadEngine(workerFile: string, makeWorker: (file: string) => Worker = (file) => new Worker(file)): ThreadEngine {
   let worker: Worker | null = null;
@@ -32,11 +36,13 @@ export function createThreadEngine(workerFile: string, makeWorker: (file: string
     return c;
   };
 
+  const forwarded: Record<string, (...args: unknown[]) => Promise<unknown>> = {};
+  for (const name of FORWARDED) forwarded[name] = async (...args: unknown[]) => parseResult(name, await connect().call(channelFor(name), args));
+  // Built key by key from the contract's names, each reply parsed by its own schema, so it
+  // has the handlers' types; TypeScript cannot follow that through a loop, hence the cast.
+  const handlers = forwarded as unknown as Pick<ApiHandlers, (typeof FORWARDED)[number]>;
   return {
-    analyzeTrips: async (text, settings) => parseResult('analyzeTrips', await connect().call(channelFor('analyzeTrips'), [text, settings])),
-    connectionCurve: async (analysisId, tripId, index) => parseResult('connectionCurve', await connect().call(channelFor('connectionCurve'), [analysisId, tripId, index])),
-    getBundleInfo: async () => parseResult('getBundleInfo', await connect().call(channelFor('getBundleInfo'), [])),
-    exportReport: async (analysisId, kind) => parseResult('exportReport', await connect().call(channelFor('exportReport'), [analysisId, kind])),
+    ...handlers,
     close: async () => {
       await worker?.terminate();
     },

@@ -15,6 +15,8 @@ import { hardenWebContents } from './harden';
 import { fileSenderCheck, registerApiHandlers } from './ipc';
 import { buildMenuTemplate } from './menu';
 import { createShellHandlers } from './shell-handlers';
+import { HistoryFileGate } from './history-gate';
+import { Worker } from 'node:worker_threads';
 import { printReportInElectron } from '../report/electron-pdf';
 import { mainWindowOptions } from './window-options';
 
@@ -110,7 +112,8 @@ app.whenReady().then(async () => {
   const dataDir = app.getPath('userData');
   const session = new WorkspaceSession(dataDir);
   const windowState = new WindowStateStore(dataDir);
-  const engine = createThreadEngine(engineThreadPath);
+  const engine = createThreadEngine(engineThreadPath, (file) => new Worker(file, { workerData: { bundleFolder: path.join(dataDir, 'bundles') } }));
+  const historyGate = new HistoryFileGate();
   openFromOs = (filePath: string) => {
     session.grantPath(filePath);
     events.push({ kind: 'open-path', path: path.resolve(filePath) });
@@ -119,7 +122,7 @@ app.whenReady().then(async () => {
 
   const handlers = combineHandlers(
     createCoreHandlers({ version: app.getVersion(), runtime: 'electron', platform: process.platform }),
-    engine,
+    { ...engine, ...historyGate.guard(engine) },
     createShellHandlers({
       session,
       events,
@@ -142,6 +145,18 @@ app.whenReady().then(async () => {
         });
         return r.canceled ? null : (r.filePaths[0] ?? null);
       },
+      chooseHistoryFile: async () => {
+        const r = await showOpen({
+          title: 'Choose a delay history file',
+          properties: ['openFile'],
+          filters: [
+            { name: 'Delay history (CSV, Parquet)', extensions: ['csv', 'tsv', 'txt', 'parquet'] },
+            { name: 'All files', extensions: ['*'] },
+          ],
+        });
+        return r.canceled ? null : (r.filePaths[0] ?? null);
+      },
+      historyGate,
       setTheme: (theme) => {
         nativeTheme.themeSource = theme;
         return { dark: nativeTheme.shouldUseDarkColors };

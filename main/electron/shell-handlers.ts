@@ -9,6 +9,7 @@ import type { ReportExport } from '../../shared/api/contract';
 import type { PaperSize } from '../../shared/report/print-layout';
 import { writeFileAtomic } from '../workspace/atomic-write';
 import { isAllowedExternal } from './external-links';
+import type { HistoryFileGate } from './history-gate';
 
 export interface ShellDeps {
   readonly session: WorkspaceSession;
@@ -17,6 +18,9 @@ export interface ShellDeps {
   readonly chooseWorkspaceToOpen: () => Promise<string | null>;
   readonly chooseWorkspaceToSave: (suggestedPath: string | null) => Promise<string | null>;
   readonly chooseTripsFile: () => Promise<string | null>;
+  readonly chooseHistoryFile: () => Promise<string | null>;
+  /** Where a chosen history path is recorded as readable by the engine. */
+  readonly historyGate: HistoryFileGate;
   readonly setTheme: (theme: ThemeChoice) => { dark: boolean };
   readonly openExternal: (url: string) => Promise<void>;
   /** The page's unsaved-changes state, for the prompt on close. */
@@ -67,6 +71,10 @@ export function createShellHandlers(deps: ShellDeps): ShellHandlers {
     importTripsFile: async () => {
       const file = await deps.chooseTripsFile();
       return file === null ? { status: 'cancelled' } : session.importTrips(file);
+    },
+    chooseHistoryFile: async () => {
+      const file = await deps.chooseHistoryFile();
+      return file === null ? { status: 'cancelled' } : deps.historyGate.grant(file);
     },
     autosaveWorkspace: async (content) => {
       await session.writeAutosave(content);

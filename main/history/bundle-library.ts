@@ -3,33 +3,13 @@
 //
 // Files are written atomically; a corrupt or foreign file in the folder is listed as unreadable
 // with its reason, never silently dropped and never fatal to the rest of the list.
-import { readdir, readFile } from 'node:fs/promises';
+import { mkdir, readdir, readFile } from 'node:fs/promises';
 import path from 'node:path';
-import type { BundleView } from '../../shared/api/analysis-schema';
-import { bundleView } from '../../shared/api/engine-handlers';
+import { libraryEntryOf, sortEntries, type ActiveBundle, type BundleStore, type LibraryEntry, type UnreadableEntry } from '../../shared/history/bundle-store';
 import { validateBundle, type PosteriorBundle } from '../../shared/delay/bundle/bundle-schema';
-import { createBundleSource } from '../../shared/delay/bundle/posterior-source';
 import { writeFileAtomic } from '../workspace/atomic-write';
 
-/** The bundle in use: a library id, or the bundle that ships with the app. */
-export type ActiveBundle = { readonly kind: 'default' } | { readonly kind: 'library'; readonly id: string };
-
-export interface LibraryEntry {
-  readonly id: string;
-  readonly file: string;
-  readonly active: boolean;
-  readonly view: BundleView;
-  readonly createdAt: string;
-  /** 'fitted' when departure delays were fitted directly, 'derived' otherwise. */
-  readonly departures: 'fitted' | 'derived';
-  /** The held-out scores stored in the bundle (e.g. the last month of the user's history). */
-  readonly heldOut: readonly { readonly candidate: string; readonly split: string; readonly flights: number; readonly natsPerFlight: number }[];
-}
-
-export interface UnreadableEntry {
-  readonly file: string;
-  readonly reason: string;
-}
+export type { ActiveBundle, LibraryEntry, UnreadableEntry } from '../../shared/history/bundle-store';
 
 const ACTIVE_FILE = 'active.json';
 
@@ -37,13 +17,14 @@ function fileNameFor(id: string): string {
   return `${id.replace(/[^A-Za-z0-9._-]/g, '_')}.json`;
 }
 
-export class BundleLibrary {
+export class BundleLibrary implements BundleStore {
   constructor(readonly folder: string) {}
 
   /** Validates and stores a bundle under its id (replacing one with the same id); returns its entry. */
   async add(bundle: unknown): Promise<LibraryEntry> {
     const valid = validateBundle(bundle);
     const file = path.join(this.folder, fileNameFor(valid.id));
+    await mkdir(this.folder, { recursive: true });
     await writeFileAtomic(file, JSON.stringify(valid));
     return this.entry(valid, file, (await this.active()).kind === 'library' && (await this.activeId()) === valid.id);
   }
@@ -69,8 +50,7 @@ export class BundleLibrary {
         unreadable.push({ file, reason: err instanceof Error ? err.message : String(err) });
       }
     }
-    entries.sort((a, b) => (a.createdAt < b.createdAt ? 1 : a.createdAt > b.createdAt ? -1 : a.id < b.id ? -1 : 1));
-    return { entries, unreadable };
+    return { entries: sortEntries(entries), unreadable };
   }
 
   /** The bundle with this id; throws an Error naming the id when there is none. */
@@ -90,6 +70,7 @@ export class BundleLibrary {
   /** Chooses the bundle in use; a library id must exist and load. */
   async use(choice: ActiveBundle): Promise<void> {
     if (choice.kind === 'library') await this.load(choice.id);
+    await mkdir(this.folder, { recursive: true });
     await writeFileAtomic(path.join(this.folder, ACTIVE_FILE), JSON.stringify(choice));
   }
 
@@ -111,14 +92,6 @@ export class BundleLibrary {
   }
 
   private entry(bundle: PosteriorBundle, file: string, active: boolean): LibraryEntry {
-    return {
-      id: bundle.id,
-      file,
-      active,
-      view: bundleView(createBundleSource(bundle, { drawCount: 1, isKnownAirport: () => true })),
-      createdAt: bundle.metadata.createdAt,
-      departures: bundle.departure.fitted !== undefined ? 'fitted' : 'derived',
-      heldOut: bundle.metadata.comparison.map((c) => ({ candidate: c.candidate, split: c.split, flights: c.flights, natsPerFlight: c.natsPerFlight })),
-    };
+    return libraryEntryOf(bundle, file, active);
   }
 }

@@ -1,15 +1,26 @@
 // The Web Worker behind the plain-page API: answers contract requests with shared/ handlers.
+// History files arrive as the File the user picked (structured-cloned into the worker) and
+// are read in slices; fitted bundles are kept in memory until the page closes.
 import { APP_VERSION } from '../../shared/app-identity';
-import { createEngineHandlers } from '../../shared/api/engine-handlers';
-import { realEngineDeps } from '../../shared/api/engine-deps';
-import { combineHandlers, createCoreHandlers, createPageShellHandlers } from '../../shared/api/handlers';
+import { createEngineHost } from '../../shared/api/engine-host';
 import { answerRequest, type WorkerReply, type WorkerRequest } from '../../shared/api/message-channel';
+import { blobByteSource, type ByteSource } from '../../shared/history/byte-source';
+import { createMemoryBundleStore } from '../../shared/history/bundle-store';
+import type { HistoryFileRef } from '../../shared/history/history-requests';
+import { previewHistorySource, readHistorySource } from '../../shared/history/read-history-source';
 
-const handlers = combineHandlers(
-  createCoreHandlers({ version: APP_VERSION, runtime: 'web', platform: navigator.platform || 'web' }),
-  createEngineHandlers(realEngineDeps(() => performance.now())),
-  createPageShellHandlers(),
-);
+function sourceOf(ref: HistoryFileRef): ByteSource {
+  if (ref.kind !== 'blob') throw new Error('the page reads delay history from a file you pick; it cannot open paths on disk');
+  return blobByteSource(ref.name, ref.blob);
+}
+
+const handlers = createEngineHost({
+  host: { version: APP_VERSION, runtime: 'web', platform: navigator.platform || 'web' },
+  store: createMemoryBundleStore('kept in this browser page until it is closed (the desktop app keeps bundles on disk)'),
+  previewHistory: (ref) => previewHistorySource(sourceOf(ref)),
+  readHistory: (ref, options) => readHistorySource(sourceOf(ref), options),
+  nowMs: () => performance.now(),
+});
 
 self.addEventListener('message', (event: MessageEvent<WorkerRequest>) => {
   void answerRequest(handlers, event.data).then(postReply);

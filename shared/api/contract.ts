@@ -8,6 +8,7 @@ import * as v from 'valibot';
 import { AnalysisSettingsSchema, THEMES } from '../workspace/settings';
 import { WorkspaceContentSchema } from '../workspace/format';
 import { AnalysisSchema, BundleViewSchema, ConnectionCurveSchema } from './analysis-schema';
+import { HISTORY_REQUESTS } from '../history/history-requests';
 
 export const AppInfoSchema = v.object({
   name: v.string(),
@@ -84,6 +85,12 @@ export const ExportedPdfSchema = v.variant('status', [
 ]);
 export type ExportedPdf = v.InferOutput<typeof ExportedPdfSchema>;
 
+/** A delay-history file the desktop app's dialog chose; its path may then be read by the engine. */
+export const ChosenHistoryFileSchema = v.variant('status', [
+  v.object({ status: v.literal('chosen'), path: v.string(), name: v.string(), bytes: v.number() }),
+  v.object({ status: v.literal('cancelled') }),
+]);
+
 /**
  * One request: a strict tuple schema for its arguments and a schema for what it resolves to.
  *
@@ -114,6 +121,18 @@ export const apiContract = {
   exportReport: request(v.strictTuple([Id, v.picklist(REPORT_EXPORT_KINDS)]), ReportExportSchema),
   /** The posterior bundle in use and its provenance, or a message saying why none is available. */
   getBundleInfo: request(v.strictTuple([]), v.object({ bundle: v.nullable(BundleViewSchema), error: v.nullable(v.string()) })),
+  /**
+   * Delay history (shared/history/history-requests.ts): preview a file's columns, fit it as a
+   * background job (status with progress, ETA and the objective trace; cancel), save the fitted
+   * bundle, list the bundles and choose the one the engine scores with.
+   */
+  previewHistory: request(HISTORY_REQUESTS.previewHistory.args, HISTORY_REQUESTS.previewHistory.result),
+  startHistoryFit: request(HISTORY_REQUESTS.startHistoryFit.args, HISTORY_REQUESTS.startHistoryFit.result),
+  historyFitStatus: request(HISTORY_REQUESTS.historyFitStatus.args, HISTORY_REQUESTS.historyFitStatus.result),
+  cancelHistoryFit: request(HISTORY_REQUESTS.cancelHistoryFit.args, HISTORY_REQUESTS.cancelHistoryFit.result),
+  saveFittedBundle: request(HISTORY_REQUESTS.saveFittedBundle.args, HISTORY_REQUESTS.saveFittedBundle.result),
+  listBundles: request(HISTORY_REQUESTS.listBundles.args, HISTORY_REQUESTS.listBundles.result),
+  useBundle: request(HISTORY_REQUESTS.useBundle.args, HISTORY_REQUESTS.useBundle.result),
 
   // Files and the desktop shell (Electron only; the page uses the browser's own file handling).
   /**
@@ -131,6 +150,8 @@ export const apiContract = {
   /** Forget the current file (File › New); the next save asks where. */
   newWorkspace: request(v.strictTuple([]), v.null()),
   importTripsFile: request(v.strictTuple([]), ImportedFileSchema),
+  /** Ask for a delay-history file (CSV or Parquet) with the native dialog; the path is then readable by previewHistory and startHistoryFit. */
+  chooseHistoryFile: request(v.strictTuple([]), ChosenHistoryFileSchema),
   autosaveWorkspace: request(v.strictTuple([WorkspaceContentSchema]), v.null()),
   takeRecovery: request(v.strictTuple([]), RecoveryOfferSchema),
   discardRecovery: request(v.strictTuple([]), v.null()),

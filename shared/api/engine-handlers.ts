@@ -9,6 +9,7 @@ import type { MakeCurve, MarginDistribution, MctRule, ScoreOptions, ScoredTrips 
 import type { AnalysisSettings } from '../workspace/settings';
 import type { Analysis, BundleView, ConnectionCurve } from './analysis-schema';
 import { groupView, scoredTripView, unscoredTripViews } from './trip-views';
+import { bundleView } from './bundle-view';
 import type { ReportExport, ReportExportKind } from './contract';
 import { connectionsCsv, reportDocument } from '../report/build-report';
 import { bundleDetailsOf } from '../report/bundle-details';
@@ -23,6 +24,9 @@ export interface EngineDeps {
   readonly countryOf: (iata: string) => string | undefined;
   readonly nowMs: () => number;
 }
+
+/** The requests served here, in the order the thread client forwards them. */
+export const ENGINE_REQUEST_NAMES = ['analyzeTrips', 'connectionCurve', 'getBundleInfo', 'exportReport'] as const;
 
 export interface EngineHandlers {
   analyzeTrips(text: string, settings: AnalysisSettings): Promise<Analysis>;
@@ -62,43 +66,15 @@ export function rebinMargin(margin: MarginDistribution, width: number): { margin
   return [...bins.entries()].sort((a, b) => a[0] - b[0]).map(([marginMinutes, p]) => ({ marginMinutes, probability: Math.min(1, Math.max(0, p)) }));
 }
 
-interface BundleMetadata {
-  readonly title: string;
-  readonly license: string;
-  readonly dateRange: { readonly first: string; readonly last: string };
-  readonly flights: number;
-  readonly routes: number;
-  readonly airports: number;
-  readonly method: string;
-}
-
-/** The source's identity, plus the bundle file's provenance when the source is one. */
-export function bundleView(source: PosteriorSource): BundleView {
-  const view: BundleView = { id: source.info.id, model: source.info.model, source: source.info.source };
-  const meta = (source as { bundle?: { metadata?: BundleMetadata } }).bundle?.metadata;
-  if (!meta) return view;
-  return {
-    ...view,
-    provenance: { title: meta.title, license: meta.license, dateFirst: meta.dateRange.first, dateLast: meta.dateRange.last, flights: meta.flights, routes: meta.routes, airports: meta.airports, method: meta.method },
-  };
-}
-
 function clamp01(p: number): number {
   return Math.min(1, Math.max(0, p));
 }
 
 export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
-  let source: Promise<PosteriorSource> | null = null;
-  const kept = new Map<string, { scored: ScoredTrips; options: ScoreOptions }>();
+  const kept = new Map<string, { scored: ScoredTrips; options: ScoreOptions; source: PosteriorSource }>();
   let nextId = 1;
-
-  const getSource = (): Promise<PosteriorSource> => {
-    source ??= deps.loadPosteriorSource().catch((err: unknown) => {
-      source = null; // allow a later retry, e.g. once the bundle file is in place
-      throw err;
-    });
-    return source;
-  };
+  // The loader caches (per bundle choice, see history-handlers.ts); a failed load is retried.
+  const getSource = (): Promise<PosteriorSource> => deps.loadPosteriorSource();
 
   return {
     async analyzeTrips(text, settings) {
@@ -118,7 +94,7 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
       const t2 = deps.nowMs();
       const scored = deps.scoreTrips(parsed, loaded, options);
       const scoreMs = deps.nowMs() - t2;
-      kept.set(analysisId, { scored, options });
+      kept.set(analysisId, { scored, options, source: loaded });
       for (const key of kept.keys()) if (kept.size > KEPT_ANALYSES) kept.delete(key);
       return {
         ...base,
@@ -136,7 +112,8 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
     async connectionCurve(analysisId, tripId, connectionIndex) {
       const entry = kept.get(analysisId);
       if (!entry) throw new Error(`analysis ${analysisId} is no longer kept; analyse the trips again`);
-      const { curve, margin } = deps.connectionCurves(entry.scored, tripId, connectionIndex, await getSource(), entry.options);
+      // The bundle it was scored with, even if another has been chosen since.
+      const { curve, margin } = deps.connectionCurves(entry.scored, tripId, connectionIndex, entry.source, entry.options);
       return {
         tripId,
         connectionIndex,
@@ -157,7 +134,7 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
       const stamp = new Date().toISOString();
       const day = stamp.slice(0, 10);
       if (kind === 'connections') return { title: 'Connections', fileName: `layline-connections-${day}.csv`, mimeType: 'text/csv', text: connectionsCsv(entry.scored) };
-      const doc = reportDocument(entry.scored, kind, { generatedAt: stamp, bundleDetails: bundleDetailsOf(await getSource()) });
+      const doc = reportDocument(entry.scored, kind, { generatedAt: stamp, bundleDetails: bundleDetailsOf(entry.source) });
       return { title: doc.title, fileName: `layline-${kind === 'manager' ? 'report' : 'briefings'}-${day}.html`, mimeType: 'text/html', text: doc.html };
     },
 

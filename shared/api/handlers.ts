@@ -6,6 +6,7 @@
 import { APP_NAME } from '../app-identity';
 import type { ApiHandlers } from './contract';
 import type { EngineHandlers } from './engine-handlers';
+import type { HistoryHandlers } from './history-handlers';
 
 export interface HostInfo {
   readonly version: string;
@@ -15,7 +16,7 @@ export interface HostInfo {
 
 export type CoreHandlers = Pick<ApiHandlers, 'getAppInfo'>;
 /** The desktop shell's requests: files, dialogs, theme, events. */
-export type ShellHandlers = Omit<ApiHandlers, keyof CoreHandlers | keyof EngineHandlers>;
+export type ShellHandlers = Omit<ApiHandlers, keyof CoreHandlers | keyof EngineHandlers | keyof HistoryHandlers>;
 
 export function createCoreHandlers(host: HostInfo): CoreHandlers {
   return {
@@ -36,6 +37,7 @@ export function createPageShellHandlers(): ShellHandlers {
     saveWorkspace: onlyInDesktop('saveWorkspace'),
     newWorkspace: onlyInDesktop('newWorkspace'),
     importTripsFile: onlyInDesktop('importTripsFile'),
+    chooseHistoryFile: onlyInDesktop('chooseHistoryFile'),
     autosaveWorkspace: onlyInDesktop('autosaveWorkspace'),
     takeRecovery: onlyInDesktop('takeRecovery'),
     discardRecovery: onlyInDesktop('discardRecovery'),
@@ -48,6 +50,6 @@ export function createPageShellHandlers(): ShellHandlers {
   };
 }
 
-export function combineHandlers(core: CoreHandlers, engine: EngineHandlers, shell: ShellHandlers): ApiHandlers {
+export function combineHandlers(core: CoreHandlers, engine: EngineHandlers & HistoryHandlers, shell: ShellHandlers): ApiHandlers {
   return { ...core, ...engine, ...shell };
 }

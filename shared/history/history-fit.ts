@@ -20,8 +20,9 @@ import type { HistoryTable, ImportSummary } from './history-table';
 import { hasDepartureDelays, historyFlightColumns, planHoldout, type HoldoutPlan } from './holdout';
 import { dayNumber } from './cells';
 
-export const HISTORY_FIT_METHODS = ['map', 'advi', 'svi'] as const;
-export type HistoryFitMethod = (typeof HISTORY_FIT_METHODS)[number];
+import type { HistoryFitMethod } from './fit-methods';
+
+export { HISTORY_FIT_METHODS, type HistoryFitMethod } from './fit-methods';
 
 export type HistoryFitStage = 'fit-holdout' | 'evaluate' | 'fit-all';
 

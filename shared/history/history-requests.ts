@@ -1,10 +1,11 @@
-// Request specs for the app's history screens, to be listed in shared/api/contract.ts by its
-// owner: argument and result schemas (valibot) for previewing a file's columns, running a fit
-// as a job with progress, cancelling it, saving its bundle and choosing the bundle in use.
-// main/history/history-fit-jobs.ts and main/history/bundle-library.ts implement them.
+// Request specs for the app's history screens, listed in shared/api/contract.ts: argument and
+// result schemas (valibot) for previewing a file's columns, running a fit as a job with
+// progress, cancelling it, saving its bundle and choosing the bundle in use.
+// history-fit-jobs.ts and the hosts' bundle stores implement them (shared/api/history-handlers.ts).
 import * as v from 'valibot';
+import { isBlobLike, type BlobLike } from './byte-source';
 import { HISTORY_FIELDS } from './columns';
-import { HISTORY_FIT_METHODS } from './history-fit';
+import { HISTORY_FIT_METHODS } from './fit-methods';
 import type { HistoryFitSummary } from './history-fit-summary';
 
 const FilePath = v.pipe(v.string(), v.minLength(1), v.maxLength(4096));
@@ -27,8 +28,18 @@ export const HistoryPreviewSchema = v.object({
   sampleRows: v.array(v.array(v.string())),
 });
 
+/**
+ * The file to read: a path the desktop app's file dialog returned (the main process only
+ * forwards paths it handed out), or, in the plain page, the File the user picked.
+ */
+export const HistoryFileRefSchema = v.variant('kind', [
+  v.strictObject({ kind: v.literal('path'), path: FilePath }),
+  v.strictObject({ kind: v.literal('blob'), name: v.pipe(v.string(), v.minLength(1), v.maxLength(400)), blob: v.custom<BlobLike>(isBlobLike, 'expected a picked file') }),
+]);
+export type HistoryFileRef = v.InferOutput<typeof HistoryFileRefSchema>;
+
 export const StartHistoryFitArgsSchema = v.strictObject({
-  path: FilePath,
+  source: HistoryFileRefSchema,
   overrides: v.optional(ColumnOverridesSchema),
   method: v.optional(v.picklist(HISTORY_FIT_METHODS)),
   /** YYYY-MM-DD; flights after it are held out (default: the last month). */
@@ -119,11 +130,11 @@ const LibraryEntrySchema = v.object({
 
 /**
  * The requests, as [argument tuple schema, result schema] for contract.ts's `request(...)`:
- * previewHistory(path), startHistoryFit(args), historyFitStatus(jobId), cancelHistoryFit(jobId),
+ * previewHistory(ref), startHistoryFit(args), historyFitStatus(jobId), cancelHistoryFit(jobId),
  * saveFittedBundle(jobId), listBundles(), useBundle(choice).
  */
 export const HISTORY_REQUESTS = {
-  previewHistory: { args: v.strictTuple([FilePath]), result: HistoryPreviewSchema },
+  previewHistory: { args: v.strictTuple([HistoryFileRefSchema]), result: HistoryPreviewSchema },
   startHistoryFit: { args: v.strictTuple([StartHistoryFitArgsSchema]), result: v.object({ jobId: JobId }) },
   historyFitStatus: { args: v.strictTuple([JobId]), result: HistoryFitJobStatusSchema },
   cancelHistoryFit: { args: v.strictTuple([JobId]), result: v.boolean() },

@@ -14,7 +14,7 @@ import { summariseHistoryFit } from '../../../shared/history/history-fit-summary
 import { HoldoutError, parseHoldoutAfter } from '../../../shared/history/holdout';
 import { FitAbortedError, FitDivergedError } from '../../../shared/inference/fit-types';
 import { readHistoryFile } from '../../history/read-history-file';
-import { HistoryFileError } from '../../history/history-file-error';
+import { HistoryFileError } from '../../../shared/history/history-file-error';
 import { writeFileAtomic } from '../../workspace/atomic-write';
 import { parseFlags } from '../command';
 import { CliFailure, UsageError, type CliIo } from '../io';

@@ -3,7 +3,7 @@
 //
 // Fields are split with the delay-history reader's RFC 4180 splitter; a quoted line break
 // inside a field is not supported here (fit inputs are short codes and numbers).
-import { detectDelimiter, splitCsvLine } from '../../history/csv-history-reader';
+import { detectDelimiter, splitCsvLine } from '../../../shared/history/csv-history-parser';
 import { CliFailure } from '../io';
 
 export interface CsvTable {

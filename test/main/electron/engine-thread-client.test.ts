@@ -3,18 +3,11 @@ import { EventEmitter } from 'node:events';
 import type { Worker } from 'node:worker_threads';
 import { describe, expect, it } from 'vitest';
 import { createThreadEngine } from '../../../main/electron/engine-thread-client';
-import { createEngineHandlers } from '../../../shared/api/engine-handlers';
-import { realEngineDeps } from '../../../shared/api/engine-deps';
-import { combineHandlers, createCoreHandlers, createPageShellHandlers } from '../../../shared/api/handlers';
 import { answerRequest, type WorkerRequest } from '../../../shared/api/message-channel';
 import { DEFAULT_ANALYSIS_SETTINGS } from '../../../shared/workspace/settings';
-import { syntheticSource } from '../../fixtures/risk/synthetic-source';
+import { testEngineHost } from '../../fixtures/api/test-engine-host';
 
-const handlers = combineHandlers(
-  createCoreHandlers({ version: '1', runtime: 'electron', platform: 'linux' }),
-  createEngineHandlers(realEngineDeps(() => 0, async () => syntheticSource({ draws: 16 }))),
-  createPageShellHandlers(),
-);
+const handlers = testEngineHost({ version: '1', runtime: 'electron', platform: 'linux' });
 
 class FakeWorker extends EventEmitter {
   postMessage(request: WorkerRequest): void {

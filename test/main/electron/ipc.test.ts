@@ -6,12 +6,9 @@ vi.mock('electron', () => ({ ipcMain: { handle } }));
 
 const { ipcMain } = await import('electron');
 const { fileSenderCheck, registerApiHandlers } = await import('../../../main/electron/ipc');
-const { combineHandlers, createCoreHandlers, createPageShellHandlers } = await import('../../../shared/api/handlers');
-const { createEngineHandlers } = await import('../../../shared/api/engine-handlers');
-const { realEngineDeps } = await import('../../../shared/api/engine-deps');
 const { channelFor, requestNames } = await import('../../../shared/api/contract');
 const { DEFAULT_ANALYSIS_SETTINGS } = await import('../../../shared/workspace/settings');
-const { syntheticSource } = await import('../../fixtures/risk/synthetic-source');
+const { testEngineHost } = await import('../../fixtures/api/test-engine-host');
 
 const { APP_INDEX_URL } = await import('../../../main/electron/app-protocol');
 const INDEX = APP_INDEX_URL;
@@ -28,11 +25,7 @@ const TRIPS = 'traveler,trip,flight,from,depart,to,arrive\nAda,T,UA 1,DFW,2026-0
 describe('registerApiHandlers', () => {
   beforeEach(() => {
     handle.mockReset();
-    const handlers = combineHandlers(
-      createCoreHandlers({ version: '9.9.9', runtime: 'electron', platform: 'linux' }),
-      createEngineHandlers(realEngineDeps(() => 0, async () => syntheticSource({ draws: 16 }))),
-      createPageShellHandlers(),
-    );
+    const handlers = testEngineHost({ version: '9.9.9', runtime: 'electron', platform: 'linux' });
     registerApiHandlers(ipcMain, handlers, fileSenderCheck(INDEX));
   });
 

@@ -5,6 +5,7 @@ import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { AppEventQueue } from '../../../main/electron/app-events';
 import { createShellHandlers, type ShellDeps } from '../../../main/electron/shell-handlers';
+import { HistoryFileGate } from '../../../main/electron/history-gate';
 import { WorkspaceSession } from '../../../main/workspace/workspace-session';
 import { EMPTY_WORKSPACE } from '../../../shared/workspace/format';
 
@@ -24,6 +25,8 @@ function shell(overrides: Partial<ShellDeps> = {}) {
     chooseWorkspaceToOpen: vi.fn(async () => null),
     chooseWorkspaceToSave: vi.fn(async () => path.join(dir, 'offsite')),
     chooseTripsFile: vi.fn(async () => null),
+    chooseHistoryFile: vi.fn(async () => null),
+    historyGate: new HistoryFileGate(),
     setTheme: vi.fn(() => ({ dark: true })),
     openExternal: vi.fn(async () => undefined),
     onDirty: vi.fn(),

@@ -1,18 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { createApiClient } from '../../../shared/api/client';
 import { ContractError, channelFor } from '../../../shared/api/contract';
-import { createEngineHandlers } from '../../../shared/api/engine-handlers';
-import { realEngineDeps } from '../../../shared/api/engine-deps';
-import { combineHandlers, createCoreHandlers, createPageShellHandlers } from '../../../shared/api/handlers';
 import { serveRequest } from '../../../shared/api/server';
 import { DEFAULT_ANALYSIS_SETTINGS } from '../../../shared/workspace/settings';
-import { syntheticSource } from '../../fixtures/risk/synthetic-source';
+import { testEngineHost } from '../../fixtures/api/test-engine-host';
 
-const handlers = combineHandlers(
-  createCoreHandlers({ version: '1.2.3', runtime: 'web', platform: 'test' }),
-  createEngineHandlers(realEngineDeps(() => 0, async () => syntheticSource({ draws: 16 }))),
-  createPageShellHandlers(),
-);
+const handlers = testEngineHost({ version: '1.2.3', runtime: 'web', platform: 'test' });
 
 describe('the API contract', () => {
   it('round-trips a request from client to server', async () => {

@@ -3,8 +3,9 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { NO_DELAY } from '../../../shared/history/history-table';
-import { readCsvHistory, splitCsvLine } from '../../../main/history/csv-history-reader';
-import { HistoryFileError } from '../../../main/history/history-file-error';
+import { splitCsvLine } from '../../../shared/history/csv-history-parser';
+import { readCsvHistory } from '../../../main/history/read-history-file';
+import { HistoryFileError } from '../../../shared/history/history-file-error';
 
 const FIXTURES = path.resolve(__dirname, '../../fixtures/history');
 let dir: string;

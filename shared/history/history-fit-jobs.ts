@@ -1,26 +1,40 @@
 // History fits as background jobs for the app: start one, poll its progress (fraction, ETA,
 // the objective trace for a live chart), cancel it, and save a finished fit's bundle into the
-// bundle library. Meant to run where the app's engine runs (a worker thread), behind the
-// requests declared in shared/history/history-requests.ts.
+// bundle library. Runs where the app's engine runs (the Electron engine thread, the page's
+// Web Worker), behind the requests declared in history-requests.ts; the host passes how to
+// read a file reference and where bundles are kept.
 //
 // A job keeps its bundle in memory until it is saved; cancelling or failing saves nothing.
-import type { Candidate } from '../../shared/delay/bundle/fit-bundle';
-import type { PosteriorBundle } from '../../shared/delay/bundle/bundle-schema';
-import type { PosteriorSource } from '../../shared/delay/predictive';
-import { fitRouteHistory } from '../../shared/history/history-fit';
-import { summariseHistoryFit } from '../../shared/history/history-fit-summary';
-import { parseHoldoutAfter } from '../../shared/history/holdout';
-import type { HistoryFitJobStatus, ObjectivePoint, StartHistoryFitArgs } from '../../shared/history/history-requests';
-import type { BundleLibrary, LibraryEntry } from './bundle-library';
-import { readHistoryFile } from './read-history-file';
+import type { Candidate } from '../delay/bundle/fit-bundle';
+import type { PosteriorBundle } from '../delay/bundle/bundle-schema';
+import type { PosteriorSource } from '../delay/predictive';
+import type { BundleStore, LibraryEntry } from './bundle-store';
+import { fitRouteHistory } from './history-fit';
+import { summariseHistoryFit } from './history-fit-summary';
+import { parseHoldoutAfter } from './holdout';
+import type { HistoryFileRef, HistoryFitJobStatus, ObjectivePoint, StartHistoryFitArgs } from './history-requests';
+import type { HistoryReadOptions, HistoryReadResult } from './read-history-source';
 
 const READ_SHARE = 0.2;
+
+/** The file's own name, for the bundle's id and provenance. */
+export function refName(ref: HistoryFileRef): string {
+  return ref.kind === 'path' ? (ref.path.split(/[\\/]/).pop() ?? ref.path) : ref.name;
+}
 const MAX_TRACE = 2000;
+/** Finished jobs kept for their status and bundle; older ones are forgotten. */
+const KEPT_FINISHED = 3;
+
+function isFinished(state: HistoryFitJobStatus['state']): boolean {
+  return state === 'done' || state === 'failed' || state === 'cancelled';
+}
 
 export interface HistoryFitJobsDeps {
   /** The model to refit: the default bundle's choice. */
   readonly candidate: () => Promise<Candidate>;
-  readonly library: BundleLibrary;
+  readonly library: BundleStore;
+  /** Reads the referenced file (the host knows how to open a path or a picked file). */
+  readonly read: (ref: HistoryFileRef, options: HistoryReadOptions) => Promise<HistoryReadResult>;
   /** The bundle in use, to score the held-out month against. */
   readonly baseline?: () => Promise<{ readonly name: string; readonly source: PosteriorSource } | null>;
   readonly now?: () => number;
@@ -28,7 +42,7 @@ export interface HistoryFitJobsDeps {
 
 interface Job {
   readonly id: string;
-  readonly controller: AbortController;
+  readonly controller: { aborted: boolean; reason?: unknown };
   readonly startedMs: number;
   status: HistoryFitJobStatus;
   bundle: PosteriorBundle | null;
@@ -43,9 +57,14 @@ export class HistoryFitJobs {
 
   /** Starts a fit and returns its id at once; the work continues in the background. */
   start(args: StartHistoryFitArgs): { jobId: string } {
+    // One fit at a time: two would halve each other's speed and the user sees one progress bar.
+    const running = [...this.jobs.values()].find((j) => !isFinished(j.status.state));
+    if (running) throw new Error(`a fit is already running (${running.id}); wait for it or cancel it first`);
+    this.prune();
     const id = `fit-${this.next++}`;
     const now = this.deps.now ?? (() => Date.now());
-    const controller = new AbortController();
+    // A plain flag object: the fits and readers take any { aborted } signal, and shared/ has no DOM types.
+    const controller: Job['controller'] = { aborted: false };
     const startedMs = now();
     const trace: ObjectivePoint[] = [];
     const job: Job = {
@@ -64,15 +83,15 @@ export class HistoryFitJobs {
       try {
         const cutoffDay = args.holdoutAfter === undefined ? undefined : parseHoldoutAfter(args.holdoutAfter);
         const [candidate, baseline] = await Promise.all([this.deps.candidate(), this.deps.baseline?.() ?? Promise.resolve(null)]);
-        const read = await readHistoryFile(args.path, { overrides: args.overrides, signal: controller.signal, onProgress: (p) => update(READ_SHARE * p.fraction, `reading: ${p.rows} rows`, 'reading') });
+        const read = await this.deps.read(args.source, { overrides: args.overrides, signal: controller, onProgress: (p) => update(READ_SHARE * p.fraction, `reading: ${p.rows} rows`, 'reading') });
         const createdAt = new Date(now()).toISOString();
-        const name = args.path.split(/[\\/]/).pop() ?? args.path;
+        const name = refName(args.source);
         const result = await fitRouteHistory(read.table, {
           method: args.method ?? 'map',
           seed: args.seed ?? 1,
           candidate,
           cutoffDay,
-          signal: controller.signal,
+          signal: controller,
           baseline: baseline ?? undefined,
           onProgress: (p) => {
             update(READ_SHARE + (1 - READ_SHARE) * p.fraction, p.label, 'fitting');
@@ -94,7 +113,7 @@ export class HistoryFitJobs {
         update(1, 'done', 'done');
         job.status = { ...job.status, summary: summariseHistoryFit(result, candidate, JSON.stringify(result.bundle).length) };
       } catch (err) {
-        const cancelled = controller.signal.aborted;
+        const cancelled = controller.aborted;
         update(job.status.fraction, cancelled ? 'cancelled' : 'failed', cancelled ? 'cancelled' : 'failed');
         job.status = { ...job.status, error: cancelled ? 'the fit was cancelled; nothing was saved' : err instanceof Error ? err.message : String(err) };
       }
@@ -118,8 +137,8 @@ export class HistoryFitJobs {
   /** Asks a running job to stop; false when it had already finished. */
   cancel(jobId: string): boolean {
     const job = this.job(jobId);
-    if (job.status.state === 'done' || job.status.state === 'failed' || job.status.state === 'cancelled') return false;
-    job.controller.abort();
+    if (isFinished(job.status.state)) return false;
+    job.controller.aborted = true;
     return true;
   }
 
@@ -128,6 +147,12 @@ export class HistoryFitJobs {
     const job = this.job(jobId);
     if (job.status.state !== 'done' || !job.bundle) throw new Error(`fit ${jobId} has not finished successfully (${job.status.state}); there is no bundle to save`);
     return this.deps.library.add(job.bundle);
+  }
+
+  /** Forgets the oldest finished jobs (each may hold a bundle of several MB). */
+  private prune(): void {
+    const finished = [...this.jobs.values()].filter((j) => isFinished(j.status.state));
+    for (const j of finished.slice(0, Math.max(0, finished.length - KEPT_FINISHED + 1))) this.jobs.delete(j.id);
   }
 
   private job(jobId: string): Job {
