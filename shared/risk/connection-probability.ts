@@ -21,28 +21,27 @@ export const MAX_LAYOVER_MINUTES = 1440;
  * minimum-layover check relies on that.
  */
 export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m: number): number {
-  const shift = m + departure.lo - arrival.lo;
-  const nA = arrival.cdf.length;
-  const w = departure.weight;
+  const lo = departure.lo;
+  const shift = m + lo - arrival.lo;
   const fa = arrival.cdf;
-  const heavy = arrival.heavyTail;
-  const above = arrival.beyondHi;
-  let sum = departure.lowMass * arrival.cdfAt(m + departure.lo);
-  // The whole-minute core of D, then its sparse tail nodes (the weights between them are zero).
+  const nA = fa.length;
+  const w = departure.weight;
+  let sum = departure.lowMass * arrival.cdfAt(m + lo);
+  // The whole-minute core of D, then its sparse tail nodes.
   const coreLength = departure.coreLength;
   const inStart = Math.min(coreLength, Math.max(0, -shift));
   const inEnd = Math.max(inStart, Math.min(coreLength, nA - shift));
-  // Core points below A's grid meet F_A = 0 and add nothing.
+  // Core points below A's grid meet F_A = 0 and add nothing; past A's whole-minute table, cdfAt.
   for (let i = inStart; i < inEnd; i++) sum += w[i]! * fa[i + shift]!;
-  for (let i = inEnd; i < coreLength; i++) sum += w[i]! * (heavy ? arrival.cdfAt(m + departure.lo + i) : above);
+  for (let i = inEnd; i < coreLength; i++) sum += w[i]! * arrival.cdfAt(m + lo + i);
   const tail = departure.tailIndex;
+  const tw = departure.tailWeight;
   for (let k = 0; k < tail.length; k++) {
-    const i = tail[k]!;
-    const j = i + shift;
+    const j = tail[k]! + shift;
     if (j < 0) continue;
-    sum += w[i]! * (j < nA ? fa[j]! : heavy ? arrival.cdfAt(m + departure.lo + i) : above);
+    sum += tw[k]! * (j < nA ? fa[j]! : arrival.cdfAt(m + lo + tail[k]!));
   }
-  // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under 1e-7.
+  // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under S_D(hi_D).
   sum += departure.highMass * arrival.cdfAt(m + departure.hi);
   return Math.min(1, sum);
 }

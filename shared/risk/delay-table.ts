@@ -13,11 +13,18 @@ const HIGH_TAIL = 1e-7;
 const CORE_TAIL = 1e-2;
 /** Exact evaluations in the thin tail; the steps between them widen to fit. */
 const TAIL_NODES = 40;
-/** Widest grid in minutes (two days); a heavier tail is handled by calling the distribution directly. */
+/** Widest grid in minutes (two days); a heavier tail is cut there (see DrawTable). */
 const MAX_SPAN_MINUTES = 2880;
 /** Search bounds for the grid ends (minutes): two days early to five days late. */
 const SEARCH_LO = -2880;
 const SEARCH_HI = 7200;
+/**
+ * The thin tail is tabulated minute by minute for at least this long past the core (to the next
+ * tail node). Farther out, where S is below about 1e-4, F is kept every FAR_STEP minutes.
+ */
+const NEAR_TAIL_MINUTES = 240;
+/** Spacing of the far tail's points (minutes); a power of two, so positions in a cell are exact. */
+const FAR_STEP = 8;
 
 /**
  * What a table is for: 'cdf' (the inbound arrival delay, whose CDF the quadrature looks up) or
@@ -28,41 +35,56 @@ export type TableRole = 'cdf' | 'density';
 /**
  * One posterior draw's delay distribution on the whole-minute grid lo, lo + 1, ..., hi.
  *
- * Up to the point where S = 1e-2 every minute is evaluated exactly. Beyond it, in the thin tail,
- * about TAIL_NODES exact evaluations with steps growing from 2 minutes carry the rest: log S is
- * linear between them and each cell's exact mass is split between its ends. Against a fine direct
- * integration of Gumbel mixtures with wide disrupted components the error stays near 1e-5
- * (test/shared/risk/connection-probability.test.ts), and P(make) stays monotone.
+ * Up to the point where S = 1e-2 (the core) every minute is evaluated exactly. Beyond it, in the
+ * thin tail, about TAIL_NODES exact evaluations with steps growing from 2 minutes carry the rest:
+ * log S is linear between them (exact for an exponential tail, as a Gumbel's is) and each cell's
+ * exact mass is split between its ends. The first NEAR_TAIL_MINUTES or so of the thin tail are
+ * tabulated at every minute; beyond that (S below about 1e-4 for a Gumbel-like tail) F is stored
+ * every FAR_STEP minutes and is linear between them, which moves F by under 1e-6. Against a fine
+ * direct integration of Gumbel mixtures with wide disrupted components, and of a Lomax tail, the
+ * error stays near 1e-5 (test/shared/risk/connection-probability.test.ts), and P(make) stays
+ * monotone.
+ *
+ * A tail too heavy to fall to S = 1e-7 within two days (a Lomax component, say) is cut at
+ * lo + MAX_SPAN_MINUTES; F beyond hi is taken as F(hi), a lower bound short by at most S(hi).
  */
 export class DrawTable {
   /** First grid minute. */
   readonly lo: number;
   /** Last grid minute. */
   readonly hi: number;
-  /** cdf[i] ~ F(lo + i): exact on the whole-minute core, interpolated in the tail. Monotone. */
+  /**
+   * cdf[i] ~ F(lo + i) for the minutes tabulated one by one (the core and the near tail):
+   * exact on the whole-minute core, interpolated in the tail. Monotone. Shorter than the grid.
+   */
   readonly cdf: Float64Array;
   /**
-   * Only for role 'density': quadrature weights for integrating g against the density,
-   * E[g(X)] ~ sum_i weight[i] g(lo + i) + lowMass g(lo) + highMass g(hi). On the core they are
-   * the density at each minute: the trapezoid rule with unit step on a smooth integrand that
-   * vanishes at the ends is accurate far beyond h^2 (Euler-Maclaurin; Trefethen & Weideman,
-   * "The exponentially convergent trapezoidal rule", SIAM Review 56, 2014).
+   * Only for role 'density': quadrature weights of the core's minutes for integrating g against
+   * the density, E[g(X)] ~ sum_i weight[i] g(lo + i) + sum_k tailWeight[k] g(lo + tailIndex[k])
+   * + lowMass g(lo) + highMass g(hi). On the core they are the density at each minute: the
+   * trapezoid rule with unit step on a smooth integrand that vanishes at the ends is accurate far
+   * beyond h^2 (Euler-Maclaurin; Trefethen & Weideman, "The exponentially convergent trapezoidal
+   * rule", SIAM Review 56, 2014).
    */
   readonly weight: Float64Array;
-  /** The part of the end correction taken from the first tail point (see the constructor). */
-  private endCorrection = 0;
-  /** Grid points 0..coreLength-1 are the whole-minute core; beyond it only tailIndex carry weight. */
+  /** Grid points 0..coreLength-1 are the whole-minute core. */
   readonly coreLength: number;
-  /** Indices past the core with non-zero weight, ascending (role 'density'). */
+  /** Role 'density': the tail nodes past the core, as offsets from lo, ascending. */
   readonly tailIndex: Int32Array;
+  /** Role 'density': the quadrature weight of each tail node. */
+  readonly tailWeight: Float64Array;
   /** P(X <= lo). */
   readonly lowMass: number;
   /** S(hi) = P(X > hi), computed from the survival function. */
   readonly highMass: number;
-  /** F beyond the grid for a light tail: 1 - S(hi), never below the table's last value. */
+  /** F at and beyond hi: 1 - S(hi), never below the table's last value. */
   readonly beyondHi: number;
   /** True when the grid was cut at MAX_SPAN_MINUTES with more than HIGH_TAIL mass beyond it. */
   readonly heavyTail: boolean;
+  /** The last minute in cdf; the far tail's points start here. */
+  private readonly top: number;
+  /** F at top, top + FAR_STEP, ..., hi (empty when cdf reaches hi). */
+  private readonly far: Float64Array;
 
   constructor(
     readonly dist: DelayDistribution,
@@ -70,130 +92,177 @@ export class DrawTable {
   ) {
     const lo = findFirst((x) => dist.cdf(x) > LOW_TAIL, SEARCH_LO, SEARCH_HI) - 1;
     const hiCap = lo + MAX_SPAN_MINUTES;
-    const hi = Math.min(hiCap, findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI));
-    const core = Math.min(hi, findFirst((x) => dist.survival(x) <= CORE_TAIL, lo, SEARCH_HI));
-    const n = hi - lo + 1;
-    this.lo = lo;
-    this.hi = hi;
-    this.cdf = new Float64Array(n);
-    this.weight = new Float64Array(role === 'density' ? n : 0);
-    this.coreLength = core - lo + 1;
+    let hi = Math.min(hiCap, findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI));
+    const core = Math.min(hi, findFirst((x) => dist.survival(x) <= CORE_TAIL, lo, hi));
     const step = Math.max(1, Math.ceil((hi - core) / TAIL_NODES));
     const tail: number[] = [];
     // Steps grow geometrically from 2 minutes at the core's end up to `step`.
     for (let x = core, h = 2; x < hi; x += h, h = Math.min(step, Math.ceil(h * 1.5))) tail.push(x);
+    // The near tail ends at a node; past it the grid's end is moved onto the far tail's points.
+    let near = tail.findIndex((x) => x >= core + NEAR_TAIL_MINUTES);
+    if (near < 0) near = tail.length;
+    const top = near < tail.length ? tail[near]! : hi;
+    if (hi > top) hi = top + Math.ceil((hi - top) / FAR_STEP) * FAR_STEP;
     tail.push(hi);
-    const tailSurvival = tail.map((x) => checked(dist.survival(x), x, 'survival'));
-    this.highMass = tailSurvival[tailSurvival.length - 1] ?? 0;
+    const nodes = tail.length;
+    const tailSurvival = new Float64Array(nodes);
+    for (let k = 0; k < nodes; k++) tailSurvival[k] = checked(dist.survival(tail[k]!), tail[k]!, 'survival');
+    const n = top - lo + 1;
+    const coreIndex = core - lo;
+    this.lo = lo;
+    this.hi = hi;
+    this.top = top;
+    const cdf = new Float64Array(n);
+    this.cdf = cdf;
+    this.coreLength = coreIndex + 1;
+    this.highMass = tailSurvival[nodes - 1]!;
     if (role === 'cdf') {
-      for (let x = lo; x <= core; x++) this.cdf[x - lo] = checked(dist.cdf(x), x, 'CDF');
-      this.lowMass = this.cdf[0] ?? 0;
+      for (let x = lo; x <= core; x++) cdf[x - lo] = checked(dist.cdf(x), x, 'CDF');
+      this.lowMass = cdf[0]!;
+      this.weight = new Float64Array(0);
+      this.tailIndex = new Int32Array(0);
+      this.tailWeight = new Float64Array(0);
     } else {
       this.lowMass = checked(dist.cdf(lo), lo, 'CDF');
-      for (let x = lo; x <= core; x++) this.weight[x - lo] = checkedDensity(dist.pdf(x), x);
-      this.weight[core - lo] = (this.weight[core - lo] ?? 0) / 2;
+      const weight = new Float64Array(this.coreLength);
+      const tailWeight = new Float64Array(nodes - 1);
+      const tailIndex = new Int32Array(nodes - 1);
+      for (let k = 1; k < nodes; k++) tailIndex[k - 1] = tail[k]! - lo;
+      for (let x = lo; x <= core; x++) weight[x - lo] = checkedDensity(dist.pdf(x), x);
+      weight[coreIndex] = weight[coreIndex]! / 2;
       // Euler-Maclaurin end correction of the core's trapezoid at its last point c:
       // -(1/12) (f g)'(c), with f'(c) by a central difference and g'(c) ~ (g(c+2) - g(c-2)) / 4,
-      // carried by the weights at c - 2 and at c + 2 (the first tail point). Both stay positive.
+      // carried by the weights at c - 2 and at c + 2 (the first tail node). Both stay positive.
+      let endCorrection = 0;
       if (core - 2 > lo && core + 2 < hi) {
-        const fc = 2 * this.weight[core - lo]!;
-        const slope = (dist.pdf(core + 1) - this.weight[core - lo - 1]!) / 2;
-        this.weight[core - lo] = this.weight[core - lo]! - slope / 12;
-        this.weight[core - lo - 2] = this.weight[core - lo - 2]! + fc / 48;
-        this.endCorrection = fc / 48;
+        const fc = 2 * weight[coreIndex]!;
+        const slope = (dist.pdf(core + 1) - weight[coreIndex - 1]!) / 2;
+        weight[coreIndex] = weight[coreIndex]! - slope / 12;
+        weight[coreIndex - 2] = weight[coreIndex - 2]! + fc / 48;
+        endCorrection = fc / 48;
       }
       // The CDF on the core by the cumulative trapezoid rule, for simulation only.
       let f = this.lowMass;
-      this.cdf[0] = f;
-      const coreIndex = core - lo;
+      cdf[0] = f;
       for (let i = 1; i <= coreIndex; i++) {
         // weight[coreIndex] holds half the density there (the trapezoid's end).
-        f += ((this.weight[i - 1] ?? 0) + (this.weight[i] ?? 0) * (i === coreIndex ? 2 : 1)) / 2;
-        this.cdf[i] = Math.min(1, f);
+        f += (weight[i - 1]! + weight[i]! * (i === coreIndex ? 2 : 1)) / 2;
+        cdf[i] = Math.min(1, f);
       }
       // Each tail cell's exact mass goes to its two ends in the ratio that puts its centre of
       // mass right for an exponential density across the cell (rate from the two survivals), so
       // the rule is exact for a g linear across the cell.
-      for (let k = 0; k + 1 < tail.length; k++) {
+      for (let k = 0; k + 1 < nodes; k++) {
         const s0 = tailSurvival[k]!;
         const s1 = tailSurvival[k + 1]!;
         const mass = Math.max(0, s0 - s1);
-        const width = tail[k + 1]! - tail[k]!;
         const decay = s0 > 0 && s1 > 0 ? Math.log(s0 / s1) : 0;
         const theta = decay > 1e-6 ? 1 / decay - 1 / Math.expm1(decay) : 0.5;
-        this.weight[tail[k]! - lo] = this.weight[tail[k]! - lo]! + mass * (1 - theta);
-        this.weight[tail[k + 1]! - lo] = this.weight[tail[k + 1]! - lo]! + Math.max(0, mass * theta - (k === 0 ? this.endCorrection : 0));
-        void width;
+        if (k === 0) weight[coreIndex] = weight[coreIndex]! + mass * (1 - theta);
+        else tailWeight[k - 1] = tailWeight[k - 1]! + mass * (1 - theta);
+        tailWeight[k] = tailWeight[k]! + Math.max(0, mass * theta - (k === 0 ? endCorrection : 0));
       }
+      this.weight = weight;
+      this.tailIndex = tailIndex;
+      this.tailWeight = tailWeight;
     }
-    // The thin tail of the CDF: exact at the nodes; between them log S is linear, which is exact
-    // for an exponential tail (as a Gumbel's is) and keeps the CDF increasing.
-    for (let k = 0; k + 1 < tail.length; k++) {
+    // The core made monotone (rounding in a distribution's CDF could break it), then F at the
+    // tail nodes: exact, never below what comes before.
+    for (let i = 1; i <= coreIndex; i++) if (cdf[i]! < cdf[i - 1]!) cdf[i] = cdf[i - 1]!;
+    const nodeF = new Float64Array(nodes);
+    nodeF[0] = Math.max(cdf[coreIndex]!, 1 - tailSurvival[0]!);
+    for (let k = 1; k < nodes; k++) nodeF[k] = Math.max(nodeF[k - 1]!, 1 - tailSurvival[k]!);
+    // The thin tail between nodes: log S linear, clamped to the nodes' F, so F keeps increasing.
+    // On the near tail S steps by a constant factor per minute; on the far tail per FAR_STEP.
+    const farCount = hi > top ? (hi - top) / FAR_STEP + 1 : 0;
+    const far = new Float64Array(farCount);
+    for (let k = 0; k + 1 < nodes; k++) {
       const x0 = tail[k]!;
       const x1 = tail[k + 1]!;
       const s0 = tailSurvival[k]!;
       const s1 = tailSurvival[k + 1]!;
-      const f0 = Math.max(this.cdf[x0 - lo]!, 1 - s0);
-      if (!(s0 > 0 && s1 > 0)) {
-        for (let x = x0; x <= x1; x++) this.cdf[x - lo] = Math.max(f0, f0 + ((s0 - s1) * (x - x0)) / (x1 - x0 || 1));
-        continue;
+      const f0 = nodeF[k]!;
+      const f1 = nodeF[k + 1]!;
+      const logRate = s0 > 0 && s1 > 0 ? Math.log(s1 / s0) / (x1 - x0) : NaN;
+      if (x0 < top) {
+        if (Number.isNaN(logRate)) {
+          for (let x = x0; x < x1; x++) cdf[x - lo] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (x - x0)) / (x1 - x0)));
+        } else {
+          const ratio = Math.exp(logRate);
+          let s = s0;
+          for (let x = x0; x < x1; x++, s *= ratio) cdf[x - lo] = Math.min(f1, Math.max(f0, 1 - s));
+        }
+      } else {
+        // Far points x0 <= top + j * FAR_STEP < x1.
+        for (let j = Math.ceil((x0 - top) / FAR_STEP); top + j * FAR_STEP < x1; j++) {
+          const x = top + j * FAR_STEP;
+          const value = Number.isNaN(logRate) ? f0 + ((s0 - s1) * (x - x0)) / (x1 - x0) : 1 - s0 * Math.exp(logRate * (x - x0));
+          far[j] = Math.min(f1, Math.max(f0, value));
+        }
       }
-      const rate = Math.log(s1 / s0) / (x1 - x0 || 1);
-      for (let x = x0; x <= x1; x++) this.cdf[x - lo] = Math.max(f0, 1 - s0 * Math.exp(rate * (x - x0)));
     }
-    for (let i = 1; i < n; i++) if ((this.cdf[i] ?? 0) < (this.cdf[i - 1] ?? 0)) this.cdf[i] = this.cdf[i - 1] ?? 0;
+    cdf[n - 1] = nodeF[near < nodes ? near : nodes - 1]!;
+    if (farCount > 0) far[farCount - 1] = nodeF[nodes - 1]!;
+    this.far = far;
+    this.beyondHi = nodeF[nodes - 1]!;
     this.heavyTail = this.highMass > HIGH_TAIL;
-    this.tailIndex = Int32Array.from(role === 'density' ? tail.slice(1).map((x) => x - lo) : []);
-    this.beyondHi = Math.max(this.cdf[n - 1] ?? 1, 1 - this.highMass);
-  }
-
-  /** F(x) at a whole minute x: the table inside the grid, the distribution (or its limit) outside. */
-  cdfAt(x: number): number {
-    if (x < this.lo) return 0;
-    if (x > this.hi) return this.heavyTail ? Math.max(this.beyondHi, this.dist.cdf(x)) : this.beyondHi;
-    return this.cdf[x - this.lo] ?? NaN;
   }
 
   /**
-   * The delay with F(delay) = u, linear between grid minutes; outside the grid it inverts the
+   * F(x) at a whole minute x: the table inside the grid (linear between the far tail's points),
+   * 0 below it and F(hi) above it. Non-decreasing in x.
+   */
+  cdfAt(x: number): number {
+    const i = x - this.lo;
+    if (i < 0) return 0;
+    const cdf = this.cdf;
+    if (i < cdf.length) return cdf[i]!;
+    if (x >= this.hi) return this.beyondHi;
+    // Linear between far points: FAR_STEP is a power of two, so the position t is exact and
+    // F rises from far[j] to no more than far[j + 1].
+    const offset = x - this.top;
+    const j = Math.floor(offset / FAR_STEP);
+    const t = (offset - j * FAR_STEP) / FAR_STEP;
+    const f0 = this.far[j]!;
+    return Math.min(this.far[j + 1]!, f0 + (this.far[j + 1]! - f0) * t);
+  }
+
+  /**
+   * The delay with F(delay) = u, linear between grid points; outside the grid it inverts the
    * distribution itself by bisection. u must lie in (0, 1).
    */
   inverse(u: number): number {
     const cdf = this.cdf;
     const n = cdf.length;
     if (u <= cdf[0]!) return invertByBisection(this.dist, u, SEARCH_LO, this.lo);
-    if (u > cdf[n - 1]!) return invertByBisection(this.dist, u, this.hi, SEARCH_HI);
-    // A guide table (Chen & Asau 1974) narrows the search to the indices of u's bucket.
-    const guide = (this.guide ??= buildGuide(cdf));
-    const bucket = Math.min(GUIDE_BUCKETS - 1, Math.floor(u * GUIDE_BUCKETS));
-    let a = Math.max(0, guide[bucket]! - 1);
-    let b = guide[bucket + 1]!;
+    if (u <= cdf[n - 1]!) {
+      // The largest a with cdf[a] < u; most draws fall in the core.
+      let a = 0;
+      let b = u <= cdf[this.coreLength - 1]! ? this.coreLength - 1 : n - 1;
+      while (b - a > 1) {
+        const mid = (a + b) >>> 1;
+        if (cdf[mid]! < u) a = mid;
+        else b = mid;
+      }
+      const fa = cdf[a]!;
+      const fb = cdf[b]!;
+      const t = fb > fa ? (u - fa) / (fb - fa) : 0;
+      return this.lo + a + t;
+    }
+    const far = this.far;
+    if (far.length === 0 || u > far[far.length - 1]!) return invertByBisection(this.dist, u, this.hi, SEARCH_HI);
+    let a = 0;
+    let b = far.length - 1;
     while (b - a > 1) {
       const mid = (a + b) >>> 1;
-      if (cdf[mid]! < u) a = mid;
+      if (far[mid]! < u) a = mid;
       else b = mid;
     }
-    const fa = cdf[a]!;
-    const fb = cdf[b]!;
+    const fa = far[a]!;
+    const fb = far[b]!;
     const t = fb > fa ? (u - fa) / (fb - fa) : 0;
-    return this.lo + a + t;
+    return this.top + (a + t) * FAR_STEP;
   }
-
-  private guide: Int32Array | undefined;
-}
-
-const GUIDE_BUCKETS = 256;
-
-// guide[b] = the first index i with cdf[i] >= b / GUIDE_BUCKETS (n - 1 when none), b = 0..GUIDE_BUCKETS.
-function buildGuide(cdf: Float64Array): Int32Array {
-  const n = cdf.length;
-  const guide = new Int32Array(GUIDE_BUCKETS + 1);
-  let i = 0;
-  for (let b = 0; b <= GUIDE_BUCKETS; b++) {
-    while (i < n - 1 && cdf[i]! < b / GUIDE_BUCKETS) i++;
-    guide[b] = i;
-  }
-  return guide;
 }
 
 function checked(value: number, x: number, what: string): number {

@@ -199,6 +199,45 @@ describe('quadrature accuracy on a heavy-tailed mixture', () => {
   });
 });
 
+describe('quadrature accuracy far into the tail', () => {
+  // The same reference as above, with the step widened to 0.5 minutes past 600 minutes and the
+  // remainder beyond 40,000 minutes counted at its lower bound S_D(40000) F_A(m + 40000).
+  function reference(a: DrawTable, d: DrawTable, m: number): number {
+    let r = 0;
+    for (let x = -300; x < 600; x += 0.05) r += d.dist.pdf(x + 0.025) * a.dist.cdf(m + x + 0.025) * 0.05;
+    for (let x = 600; x < 40000; x += 0.5) r += d.dist.pdf(x + 0.25) * a.dist.cdf(m + x + 0.25) * 0.5;
+    return r + d.dist.survival(40000) * a.dist.cdf(m + 40000);
+  }
+
+  it('stays within 1e-6 of a fine direct integration at long margins (light tail)', () => {
+    const a = mixtureTables('arrival', 21).table(0);
+    const d = mixtureTables('departure', 22).table(0);
+    for (const m of [400, 600, 900]) closeTo(drawMakeProbability(a, d, m), reference(a, d, m), 1e-6, `m=${m}`);
+  });
+
+  // A Gumbel plus a log-logistic component (shape 3, from -60 minutes): smooth, with S ~ x^-3,
+  // too heavy for the grid to reach S = 1e-7 within two days.
+  function heavyTables(kind: 'arrival' | 'departure', mu: number, w: number): DrawTable {
+    const g = gumbelDelay(mu, 11);
+    const y = (x: number) => Math.max(0, (x + 60) / 80);
+    const s = (x: number) => 1 / (1 + y(x) ** 3);
+    const dist = {
+      cdf: (x: number) => (1 - w) * g.cdf(x) + w * (1 - s(x)),
+      survival: (x: number) => (1 - w) * g.survival(x) + w * s(x),
+      pdf: (x: number) => (1 - w) * g.pdf(x) + w * ((3 / 80) * y(x) ** 2) / (1 + y(x) ** 3) ** 2,
+      sample: (r: ReturnType<typeof createRng>) => g.sample(r),
+    };
+    return new DrawTable(dist, kind === 'arrival' ? 'cdf' : 'density');
+  }
+
+  it('stays within 2e-5 of a fine direct integration for a smooth heavy tail', () => {
+    const a = heavyTables('arrival', 2, 0.1);
+    const d = heavyTables('departure', -1, 0.12);
+    expect(a.heavyTail).toBe(true);
+    for (const m of [0, 150, 400, 900, 1400]) closeTo(drawMakeProbability(a, d, m), reference(a, d, m), 2e-5, `m=${m}`);
+  });
+});
+
 // A Gumbel plus a Lomax (Pareto II) component with tail index 0.9: a tail so heavy that the mean
 // does not exist and the grid is cut long before the survival function becomes negligible.
 function lomaxMixture(kind: 'arrival' | 'departure') {
