@@ -1,6 +1,7 @@
 // Fits a tail-mixture route model to flights and turns the fit into a bundle.
 //
-// The mode comes from the inference engine's MAP (L-BFGS). Uncertainty is a block Laplace
+// The mode comes from the inference engine's MAP (L-BFGS), with the route sds set by
+// Laplace-EM between MAP phases (a joint MAP shrinks them without end). Uncertainty is a block Laplace
 // approximation: each route's parameters get the full k x k covariance of their conditional
 // posterior at the mode (Hessian by central differences of the route's own gradient), the
 // airport effects their closed-form conditional Gaussian, the month-effect sd and the
@@ -11,7 +12,8 @@ import { createRng } from '../../inference/rng';
 import { CLEANING_RULE, type FlightColumns } from '../evaluation/flight-columns';
 import { compressDelays, indexRoutes, type PeriodWeightedData, type RouteIndex } from '../evaluation/weighted-delays';
 import { createTailMixtureModel, FAMILY_PARAMETERS, type TailFamily, type TailMixtureData, type TailMixtureModel } from '../models/tail-mixture';
-import { routeLaplace, warmStart } from '../models/tail-mixture-blocks';
+import { routeLaplace, routeSdCoordinates, routeSdEmUpdate, warmStart } from '../models/tail-mixture-blocks';
+import type { Model } from '../../inference/model';
 import { BUNDLE_FORMAT, BUNDLE_VERSION, type PosteriorBundle } from './bundle-schema';
 
 export interface Candidate {
@@ -43,6 +45,11 @@ export interface FitBundleOptions {
   readonly onProgress?: (p: FitProgress) => void;
   readonly signal?: CancelSignal;
   readonly drawCount?: number;
+  /**
+   * Laplace-EM updates of the route sds between MAP phases (default 3; 0 fits every
+   * coordinate jointly by MAP). See routeSdEmUpdate.
+   */
+  readonly routeSdEmRounds?: number;
   /** Block-coordinate sweeps before the fit (default 2; 0 starts from the prior means). */
   readonly warmStartSweeps?: number;
   /**
@@ -96,6 +103,56 @@ function round(x: number): number {
   return Number(x.toPrecision(SIGNIFICANT));
 }
 
+/**
+ * MAP of everything but the route sds, alternated with Laplace-EM updates of those sds.
+ *
+ * Each MAP phase holds the route sds fixed (their gradient is zeroed, so L-BFGS never moves
+ * them); between phases routeSdEmUpdate sets them from the route parameters and their
+ * Laplace variances. The iteration cap is the total over all phases: the first phase
+ * gets what the later ones leave, each later one a fifth of the cap.
+ */
+async function fitMapWithHierarchyEm(model: TailMixtureModel, options: FitOptions, rounds: number, originOf: Int32Array, destinationOf: Int32Array): Promise<FitResult> {
+  const frozen = routeSdCoordinates(model);
+  const held: Model = {
+    dim: model.dim,
+    names: model.names,
+    logDensityGrad(theta, grad) {
+      const lp = model.logDensityGrad(theta, grad);
+      for (let i = 0; i < frozen.length; i++) grad[frozen[i]!] = 0;
+      return lp;
+    },
+  };
+  const total = options.maxIterations ?? 3000;
+  const later = Math.max(1, Math.floor(total / 5));
+  const phases = Math.min(rounds, Math.max(0, Math.floor((total - 1) / later)));
+  let init = options.init!;
+  let iterations = 0;
+  let elapsedMs = 0;
+  let sdChange = 0;
+  for (let phase = 0; ; phase++) {
+    const cap = phase === 0 ? total - phases * later : later;
+    const done = iterations;
+    const onProgress = options.onProgress;
+    const fit = await fitMap(held, {
+      ...options,
+      init,
+      maxIterations: cap,
+      // One progress scale over all phases, so a progress bar does not restart at each phase.
+      onProgress:
+        onProgress &&
+        ((p) => onProgress({ ...p, iteration: done + p.iteration, fraction: phase === phases && p.fraction >= 1 ? 1 : Math.min(0.999, (done + p.iteration) / total) })),
+    });
+    iterations += fit.iterations;
+    elapsedMs += fit.elapsedMs;
+    if (phase === phases) {
+      return { ...fit, iterations, elapsedMs, diagnostics: { ...fit.diagnostics, routeSdEmRounds: phases, lastRouteLogSdChange: sdChange } };
+    }
+    const natural = model.toNatural(fit.mean);
+    sdChange = routeSdEmUpdate(model, natural, originOf, destinationOf);
+    init = model.fromNatural(natural);
+  }
+}
+
 /** Fits the candidate to the masked flights and returns the bundle with its fit. */
 export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candidate: Candidate, options: FitBundleOptions): Promise<FittedBundle> {
   const started = Date.now();
@@ -122,7 +179,12 @@ export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candid
     onProgress: options.onProgress,
     signal: options.signal,
   };
-  const fit = options.algorithm ? await options.algorithm.fit(model, fitOptions, input) : await fitMap(model, fitOptions);
+  const rounds = options.routeSdEmRounds ?? 3;
+  const fit = options.algorithm
+    ? await options.algorithm.fit(model, fitOptions, input)
+    : rounds > 0
+      ? await fitMapWithHierarchyEm(model, fitOptions, rounds, originOf, destinationOf)
+      : await fitMap(model, fitOptions);
   const theta = model.toNatural(fit.mean);
   const L = model.layout;
   const k = L.k;
@@ -191,7 +253,7 @@ export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candid
       routes: index.routes.length,
       airports: codes.length,
       model: `${candidate.name}: ${candidate.description}`,
-      method: `${options.algorithm ? `${options.algorithm.description} for the centre` : 'MAP by L-BFGS (shared/inference/map.ts)'}, then a block Laplace approximation: full covariance per route, conditional Gaussians for airport effects, 1-D Laplace for log sd of month effects and log df`,
+      method: `${options.algorithm ? `${options.algorithm.description} for the centre` : rounds > 0 ? `MAP by L-BFGS (shared/inference/map.ts) with the route sds set by ${diagnostics.routeSdEmRounds} Laplace-EM updates between MAP phases` : 'MAP by L-BFGS (shared/inference/map.ts)'}, then a block Laplace approximation: full covariance per route, conditional Gaussians for airport effects, 1-D Laplace for log sd of month effects and log df`,
       fitMs,
       createdAt: options.metadata.createdAt,
       cleaning: CLEANING_RULE.text,

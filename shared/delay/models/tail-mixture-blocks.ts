@@ -212,3 +212,50 @@ function updateHierarchy(model: TailMixtureModel, natural: Float64Array, originO
     }
   }
 }
+
+/** The coordinates the Laplace-EM step sets: the log sds of the route effects. */
+export function routeSdCoordinates(model: TailMixtureModel): Int32Array {
+  const L = model.layout;
+  return Int32Array.from({ length: L.k }, (_, j) => L.logSdRoute + j);
+}
+
+/**
+ * One Laplace-EM update of the route sds, everything else held at `natural` (in place).
+ *
+ * Route parameters are centred, phi_r ~ N(m_r, sd). For a parameter the data pin only
+ * weakly (a Lomax tail index, a severe share), a joint MAP over phi and sd has no proper
+ * mode: shrinking every route onto m_r and sd toward zero raises the joint density by about
+ * R log(1/sd) for R routes, so L-BFGS shrinks that sd for as long as it runs (it never
+ * converges) and every route gets nearly the same tail. The EM update of a variance
+ * component maximises the Laplace-approximated marginal likelihood instead:
+ * sd^2 = mean over routes of (phi_r - m_r)^2 + Var(phi_r | rest), the variance from each
+ * route block's Laplace covariance (Dempster, Laird & Rubin 1977; the variance-component
+ * case of Laird & Ware 1982). Airport and month effects are non-centred and keep their joint
+ * MAP. Returns the largest |change| of a log sd.
+ */
+export function routeSdEmUpdate(model: TailMixtureModel, natural: Float64Array, originOf: Int32Array, destinationOf: Int32Array): number {
+  const L = model.layout;
+  const { k } = L;
+  const ss = new Float64Array(k);
+  for (let r = 0; r < L.routes; r++) {
+    const { chol } = routeLaplace(model, natural, r);
+    const o = originOf[r]!;
+    const d = destinationOf[r]!;
+    for (let j = 0; j < k; j++) {
+      let variance = 0;
+      for (let p = 0; p <= j; p++) variance += chol[j * k + p]! ** 2;
+      const mean =
+        natural[L.pop + j]! +
+        Math.exp(natural[L.logSdOrigin + j]!) * natural[L.origin + o * k + j]! +
+        Math.exp(natural[L.logSdDestination + j]!) * natural[L.destination + d * k + j]!;
+      ss[j]! += (natural[L.phi + r * k + j]! - mean) ** 2 + variance;
+    }
+  }
+  let change = 0;
+  for (let j = 0; j < k; j++) {
+    const logSd = 0.5 * Math.log(Math.max(ss[j]! / L.routes, 1e-16));
+    change = Math.max(change, Math.abs(logSd - natural[L.logSdRoute + j]!));
+    natural[L.logSdRoute + j] = logSd;
+  }
+  return change;
+}
