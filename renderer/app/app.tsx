@@ -13,6 +13,7 @@ import { canRedo, canUndo, redo, undo } from '../state/history';
 import type { TripFilter } from '../state/trip-table';
 import { ConnectionDetail } from '../views/connection-detail';
 import { GroupView } from '../views/group-view';
+import { HistoryView } from '../views/history-view';
 import { IntakeView } from '../views/intake-view';
 import { OptionsView, optionGroups } from '../views/options-view';
 import { SettingsView } from '../views/settings-view';
@@ -22,12 +23,13 @@ import { clearPageAutosave, downloadText, downloadWorkspace, isFirstStart, pickF
 import { count } from './format';
 import { useAnalysis } from './use-analysis';
 
-type Tab = 'intake' | 'trips' | 'options' | 'group' | 'settings';
+type Tab = 'intake' | 'trips' | 'options' | 'group' | 'history' | 'settings';
 const TABS: readonly { id: Tab; label: string }[] = [
   { id: 'intake', label: 'Intake' },
   { id: 'trips', label: 'Trips' },
   { id: 'options', label: 'Options' },
   { id: 'group', label: 'Group' },
+  { id: 'history', label: 'Delay history' },
   { id: 'settings', label: 'Settings' },
 ];
 
@@ -62,7 +64,9 @@ export function App({ api }: { api: LaylineApi }) {
   const content = doc.history.present.content;
   const view = doc.history.present.view;
   const dirty = isDirty(doc);
-  const analysisState = useAnalysis(api, content.tripsText, content.settings);
+  const [bundleRevision, setBundleRevision] = useState(0);
+  const [fitActivity, setFitActivity] = useState<string | null>(null);
+  const analysisState = useAnalysis(api, content.tripsText, content.settings, bundleRevision);
   const { analysis } = analysisState;
   // The export buttons act on the analysis on screen when clicked, not the one of the last render.
   const analysisRef = useRef(analysis);
@@ -95,11 +99,20 @@ export function App({ api }: { api: LaylineApi }) {
         setTab('trips');
       }
     })();
-    api.getBundleInfo().then(setBundle, (err: unknown) => setBundle({ bundle: null, error: message(err) }));
     return () => {
       live = false;
     };
   }, [api]);
+
+  // The bundle in use, again whenever the user switches it.
+  useEffect(() => {
+    api.getBundleInfo().then(setBundle, (err: unknown) => setBundle({ bundle: null, error: message(err) }));
+  }, [api, bundleRevision]);
+
+  const bundleChanged = useCallback((text: string) => {
+    setBundleRevision((r) => r + 1);
+    setNotice({ kind: 'info', text });
+  }, []);
 
   // Theme: the page's own colours, and in the desktop app the native ones too.
   useEffect(() => {
@@ -393,6 +406,11 @@ export function App({ api }: { api: LaylineApi }) {
           </span>
           <span class="engine-state" role="status" aria-live="polite" data-testid="engine-state">
             {analysisState.busy ? 'Scoring…' : analysis ? `Scored in ${Math.round(analysis.parseMs + analysis.scoreMs)} ms` : ''}
+            {fitActivity && (
+              <button type="button" class="link-button" onClick={() => setTab('history')}>
+                {fitActivity}
+              </button>
+            )}
           </span>
         </div>
       </header>
@@ -466,6 +484,7 @@ export function App({ api }: { api: LaylineApi }) {
         ))}
       </nav>
       <main class="panel">
+        {tab !== 'history' && (
         <div id={`panel-${tab}`} role="tabpanel" aria-labelledby={`tab-${tab}`}>
         {tab === 'intake' && <IntakeView text={content.tripsText} analysis={analysis} busy={analysisState.busy} onText={setText} onImport={() => void importFile()} onDropFile={dropFile} onLoadDemo={loadDemo} />}
         {tab === 'trips' &&
@@ -521,6 +540,11 @@ export function App({ api }: { api: LaylineApi }) {
             onTheme={(theme) => update((d) => editContent(d, { theme }, now()))}
           />
         )}
+        </div>
+        )}
+        {/* Always mounted, so a running fit keeps reporting while other screens are shown. */}
+        <div id="panel-history" role="tabpanel" aria-labelledby="tab-history" hidden={tab !== 'history'}>
+          {info && <HistoryView api={api} desktop={desktop} colors={colors} onBundleChanged={bundleChanged} onFitActivity={setFitActivity} />}
         </div>
       </main>
       <footer class="caution">

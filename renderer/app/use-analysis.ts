@@ -20,29 +20,33 @@ interface Answer {
   /** The inputs this answer is for; busy is derived by comparing them with the current ones. */
   readonly text: string | null;
   readonly settings: AnalysisSettings | null;
+  readonly revision: number;
 }
 
-export function useAnalysis(api: LaylineApi, text: string, settings: AnalysisSettings): AnalysisState & { skipNextDebounce: () => void } {
-  const [answer, setAnswer] = useState<Answer>({ analysis: null, error: null, text: null, settings: null });
+/** `bundleRevision` changes when the bundle in use changes, which scores the same input again at once. */
+export function useAnalysis(api: LaylineApi, text: string, settings: AnalysisSettings, bundleRevision = 0): AnalysisState & { skipNextDebounce: () => void } {
+  const [answer, setAnswer] = useState<Answer>({ analysis: null, error: null, text: null, settings: null, revision: bundleRevision });
   const latest = useRef(0);
   const immediate = useRef(true);
   const lastSettings = useRef(settings);
+  const lastRevision = useRef(bundleRevision);
 
   useEffect(() => {
     const id = ++latest.current;
-    const settingsChanged = lastSettings.current !== settings;
+    const settingsChanged = lastSettings.current !== settings || lastRevision.current !== bundleRevision;
     lastSettings.current = settings;
+    lastRevision.current = bundleRevision;
     const run = () => {
       api.analyzeTrips(text, settings).then(
         (analysis) => {
           if (id !== latest.current) return;
           // Lets the benchmark split engine time from rendering time.
           performance.mark('layline:analysis-arrived');
-          setAnswer({ analysis, error: null, text, settings });
+          setAnswer({ analysis, error: null, text, settings, revision: bundleRevision });
         },
         (err: unknown) => {
           if (id !== latest.current) return;
-          setAnswer((a) => ({ ...a, error: err instanceof Error ? err.message : String(err), text, settings }));
+          setAnswer((a) => ({ ...a, error: err instanceof Error ? err.message : String(err), text, settings, revision: bundleRevision }));
         },
       );
     };
@@ -53,9 +57,9 @@ export function useAnalysis(api: LaylineApi, text: string, settings: AnalysisSet
     }
     const timer = setTimeout(run, TYPING_DEBOUNCE_MS);
     return () => clearTimeout(timer);
-  }, [api, text, settings]);
+  }, [api, text, settings, bundleRevision]);
 
   // Derived while rendering, so the screen never shows an old answer as current.
-  const busy = answer.text !== text || answer.settings !== settings;
+  const busy = answer.text !== text || answer.settings !== settings || answer.revision !== bundleRevision;
   return { analysis: answer.analysis, error: answer.error, busy, skipNextDebounce: () => (immediate.current = true) };
 }

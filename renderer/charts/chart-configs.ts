@@ -137,6 +137,64 @@ export function groupCountConfig(group: GroupView, colors: ChartColors): ChartCo
   };
 }
 
+export interface TracePoint {
+  readonly stage: string;
+  readonly kind: string;
+  readonly iteration: number;
+  readonly objective: number;
+}
+
+/** The points of the fit now running (the last stage and kind in the trace). */
+export function currentSegment(trace: readonly TracePoint[]): TracePoint[] {
+  const last = trace[trace.length - 1];
+  if (!last) return [];
+  return trace.filter((p) => p.stage === last.stage && p.kind === last.kind);
+}
+
+/** The running fit's objective (log posterior) by iteration: it rises and levels off as the fit converges. */
+export function objectiveTraceConfig(trace: readonly TracePoint[], title: string, colors: ChartColors): ChartConfiguration {
+  const points = currentSegment(trace).map((p) => ({ x: p.iteration, y: p.objective }));
+  return {
+    type: 'line',
+    data: { datasets: [{ label: title, data: points, borderColor: colors.accent, borderWidth: 2, pointRadius: 0, fill: false }] },
+    options: {
+      ...common(colors),
+      parsing: false,
+      scales: {
+        x: axis(colors, 'iteration', { type: 'linear' }),
+        y: axis(colors, 'log posterior (higher is better)', { type: 'linear' }),
+      },
+    },
+  };
+}
+
+/** Predictive against held-out delay quantiles; points on the diagonal mean a well-calibrated fit. */
+export function qqConfig(qq: readonly { probability: number; observedMinutes: number; predictedMinutes: number }[], label: string, colors: ChartColors): ChartConfiguration {
+  const all = qq.flatMap((q) => [q.observedMinutes, q.predictedMinutes]);
+  const lo = all.length ? Math.min(...all) : 0;
+  const hi = all.length ? Math.max(...all) : 1;
+  return {
+    type: 'scatter',
+    data: {
+      datasets: [
+        { label, data: qq.map((q) => ({ x: q.observedMinutes, y: q.predictedMinutes, p: q.probability })), pointRadius: 5, backgroundColor: colors.accent, borderColor: colors.ink },
+        { type: 'line', label: 'perfect calibration', data: [{ x: lo, y: lo }, { x: hi, y: hi }], borderColor: colors.muted, borderDash: [5, 4], borderWidth: 1.5, pointRadius: 0, fill: false },
+      ],
+    },
+    options: {
+      ...common(colors),
+      plugins: {
+        legend: { labels: { color: colors.ink } },
+        tooltip: { callbacks: { label: (item) => `${Math.round(((item.raw as { p?: number }).p ?? 0) * 1000) / 10}% quantile: held out ${Math.round(item.parsed.x ?? 0)} min, predicted ${Math.round(item.parsed.y ?? 0)} min` } },
+      },
+      scales: {
+        x: axis(colors, 'held-out delay quantile (minutes)', { type: 'linear' }),
+        y: axis(colors, 'predicted delay quantile (minutes)', { type: 'linear' }),
+      },
+    },
+  };
+}
+
 export function readChartColors(root: Element): ChartColors {
   const css = getComputedStyle(root);
   const get = (name: string, fallback: string) => css.getPropertyValue(name).trim() || fallback;

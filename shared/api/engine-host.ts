@@ -25,11 +25,13 @@ export interface EngineHostOptions {
 }
 
 export function createEngineHost(options: EngineHostOptions): ApiHandlers {
-  const selection = createBundleSelection(options.store, options.loadDefault ?? loadBundledPosteriors);
+  const loadDefault = options.loadDefault ?? loadBundledPosteriors;
+  const selection = createBundleSelection(options.store, loadDefault);
   const engine = createEngineHandlers(realEngineDeps(options.nowMs, selection.load));
   const history = createHistoryHandlers({
     store: options.store,
     selection,
+    loadDefault,
     preview: options.previewHistory,
     read: options.readHistory,
     candidate: async () => defaultHistoryCandidate(),

@@ -11,6 +11,7 @@ import type { ActiveBundle, BundleStore } from '../history/bundle-store';
 import { HistoryFitJobs } from '../history/history-fit-jobs';
 import type { HistoryFileRef } from '../history/history-requests';
 import type { HistoryPreview, HistoryReadOptions, HistoryReadResult } from '../history/read-history-source';
+import { bundleView } from './bundle-view';
 import { parseResult, type ApiHandlers } from './contract';
 
 export const HISTORY_REQUEST_NAMES = ['previewHistory', 'startHistoryFit', 'historyFitStatus', 'cancelHistoryFit', 'saveFittedBundle', 'listBundles', 'useBundle'] as const;
@@ -56,6 +57,8 @@ export function createBundleSelection(store: BundleStore, loadDefault: () => Pro
 export interface HistoryHostDeps {
   readonly store: BundleStore;
   readonly selection: BundleSelection;
+  /** The bundle that ships with the app. */
+  readonly loadDefault: () => Promise<PosteriorSource>;
   readonly preview: (ref: HistoryFileRef) => Promise<HistoryPreview>;
   readonly read: (ref: HistoryFileRef, options: HistoryReadOptions) => Promise<HistoryReadResult>;
   /** The model to refit: the default bundle's choice. */
@@ -83,7 +86,7 @@ export function createHistoryHandlers(deps: HistoryHostDeps): HistoryHandlers {
     saveFittedBundle: async (jobId) => parseResult('saveFittedBundle', await jobs.save(jobId)),
     listBundles: async () => {
       const { entries, unreadable } = await deps.store.list();
-      return parseResult('listBundles', { entries, unreadable, active: await deps.store.active() });
+      return parseResult('listBundles', { default: bundleView(await deps.loadDefault()), entries, unreadable, active: await deps.store.active() });
     },
     useBundle: async (choice) => deps.selection.choose(choice),
   };

@@ -4,6 +4,7 @@
 // history-fit-jobs.ts and the hosts' bundle stores implement them (shared/api/history-handlers.ts).
 import * as v from 'valibot';
 import { isBlobLike, type BlobLike } from './byte-source';
+import { BundleViewSchema } from '../api/analysis-schema';
 import { HISTORY_FIELDS } from './columns';
 import { HISTORY_FIT_METHODS } from './fit-methods';
 import type { HistoryFitSummary } from './history-fit-summary';
@@ -122,7 +123,7 @@ const LibraryEntrySchema = v.object({
   id: v.string(),
   file: v.string(),
   active: v.boolean(),
-  view: v.object({ id: v.string(), model: v.string(), source: v.string() }),
+  view: BundleViewSchema,
   createdAt: v.string(),
   departures: v.picklist(['fitted', 'derived']),
   heldOut: v.array(v.object({ candidate: v.string(), split: v.string(), flights: v.number(), natsPerFlight: v.number() })),
@@ -139,6 +140,15 @@ export const HISTORY_REQUESTS = {
   historyFitStatus: { args: v.strictTuple([JobId]), result: HistoryFitJobStatusSchema },
   cancelHistoryFit: { args: v.strictTuple([JobId]), result: v.boolean() },
   saveFittedBundle: { args: v.strictTuple([JobId]), result: LibraryEntrySchema },
-  listBundles: { args: v.strictTuple([]), result: v.object({ entries: v.array(LibraryEntrySchema), unreadable: v.array(v.object({ file: v.string(), reason: v.string() })), active: ActiveBundleSchema }) },
+  listBundles: {
+    args: v.strictTuple([]),
+    result: v.object({
+      /** The bundle that ships with the app, always available. */
+      default: BundleViewSchema,
+      entries: v.array(LibraryEntrySchema),
+      unreadable: v.array(v.object({ file: v.string(), reason: v.string() })),
+      active: ActiveBundleSchema,
+    }),
+  },
   useBundle: { args: v.strictTuple([ActiveBundleSchema]), result: ActiveBundleSchema },
 } as const;
