@@ -101,56 +101,66 @@ export function pMakeIntervalAtLayover(pair: ConnectionPair, layoverMinutes: num
  * The smallest whole-minute layover L in [0, MAX_LAYOVER_MINUTES] with P(make at L) >= target;
  * null when even the longest does not reach it. target must lie in (0, 1), else RangeError.
  *
- * Brackets from a rough guess by doubling steps, then bisects on whole minutes, so at the
- * answer P >= target and at one minute less P < target, exactly, for the same function.
+ * Brackets from a rough guess by doubling steps, then narrows the bracket on whole minutes by
+ * linear interpolation between its ends (checking the minute next to each interpolated one, where
+ * the answer usually is) or by halving it, so at the answer P >= target and at one minute less
+ * P < target, exactly, for the same function. Only the number of evaluations depends on the
+ * guess and the interpolation, never the answer.
  */
 export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target: number): number | null {
   if (!(target > 0 && target < 1)) throw new RangeError(`target must lie in (0, 1), got ${target}`);
   if (!Number.isInteger(mctMinutes)) throw new RangeError(`MCT must be whole minutes, got ${mctMinutes}`);
-  const reaches = (layover: number) => pair.probability(layover - mctMinutes) >= target;
-  const guess = Math.min(MAX_LAYOVER_MINUTES, Math.max(0, roughLayoverGuess(pair, mctMinutes, target)));
-  let bad: number; // largest layover known to miss the target (or -1)
-  let good: number; // smallest layover known to reach it
-  if (reaches(guess)) {
-    good = guess;
-    bad = -1;
-    for (let step = 4; good > 0; step *= 2) {
-      const probe = Math.max(0, good - step);
-      if (reaches(probe)) good = probe;
-      else {
-        bad = probe;
-        break;
-      }
+  let bad = -1; // largest layover known to miss the target (-1: none known)
+  let pBad = 0;
+  let good = MAX_LAYOVER_MINUTES + 1; // smallest layover known to reach it (past the end: none known)
+  let pGood = 1;
+  const probe = (layover: number): boolean => {
+    const p = pair.probability(layover - mctMinutes);
+    if (p >= target) {
+      good = layover;
+      pGood = p;
+      return true;
     }
-    if (good === 0) return 0;
-  } else {
-    bad = guess;
-    good = -1;
-    for (let step = 4; ; step *= 2) {
-      if (bad >= MAX_LAYOVER_MINUTES) return null;
-      const probe = Math.min(MAX_LAYOVER_MINUTES, bad + step);
-      if (reaches(probe)) {
-        good = probe;
-        break;
-      }
-      bad = probe;
-    }
+    bad = layover;
+    pBad = p;
+    return false;
+  };
+  probe(Math.min(MAX_LAYOVER_MINUTES, Math.max(0, roughLayoverGuess(pair, mctMinutes, target))));
+  for (let step = 4; good - bad > 1 && (bad < 0 || good > MAX_LAYOVER_MINUTES); step *= 2) {
+    if (bad >= MAX_LAYOVER_MINUTES) return null;
+    probe(bad < 0 ? Math.max(0, good - step) : Math.min(MAX_LAYOVER_MINUTES, bad + step));
   }
+  // Interpolate while that at least halves the bracket; after one that does not, halve it once.
+  let interpolate = true;
   while (good - bad > 1) {
-    const mid = Math.floor((good + bad) / 2);
-    if (reaches(mid)) good = mid;
-    else bad = mid;
+    const width = good - bad;
+    if (interpolate && pGood > pBad) {
+      // The first minute where the chord between the bracket's ends reaches the target...
+      const next = Math.min(good - 1, Math.max(bad + 1, Math.ceil(bad + ((target - pBad) / (pGood - pBad)) * width)));
+      const reached = probe(next);
+      // ...and its neighbour on the other side, which settles it when the chord was right.
+      if (good - bad > 1) probe(reached ? next - 1 : next + 1);
+      interpolate = good - bad <= width / 2;
+    } else {
+      probe(Math.floor((good + bad) / 2));
+      interpolate = true;
+    }
   }
-  return good;
+  return good > MAX_LAYOVER_MINUTES ? null : good;
 }
 
-// A starting point for the bracket: the target quantile of A minus the median of D in the
-// middle draw, plus MCT. Only the search's speed depends on it, never its answer.
+// A starting point for the bracket, from the middle draw: the medians' difference plus the two
+// spreads to the target's quantiles added in quadrature, as for a difference of independent
+// normals. Only the search's speed depends on it, never its answer.
 function roughLayoverGuess(pair: ConnectionPair, mctMinutes: number, target: number): number {
   const t = Math.floor(pair.draws / 2);
-  const a = pair.arrival.table(t).inverse(target);
-  const d = pair.departure.table(t).inverse(0.5);
-  const guess = Math.round(a - d + mctMinutes);
+  const arrival = pair.arrival.table(t);
+  const departure = pair.departure.table(t);
+  const a = arrival.inverse(0.5);
+  const d = departure.inverse(0.5);
+  const spreadA = arrival.inverse(target) - a;
+  const spreadD = d - departure.inverse(1 - target);
+  const guess = Math.round(a - d + Math.sign(spreadA + spreadD) * Math.hypot(spreadA, spreadD) + mctMinutes);
   return Number.isFinite(guess) ? guess : mctMinutes;
 }
 

@@ -105,27 +105,36 @@ export class DrawTable {
     if (hi > top) hi = top + Math.ceil((hi - top) / FAR_STEP) * FAR_STEP;
     tail.push(hi);
     const nodes = tail.length;
-    const tailSurvival = new Float64Array(nodes);
+    if (scratchSurvival.length < nodes) {
+      scratchSurvival = new Float64Array(2 * nodes);
+      scratchNodeF = new Float64Array(2 * nodes);
+    }
+    const tailSurvival = scratchSurvival;
     for (let k = 0; k < nodes; k++) tailSurvival[k] = checked(dist.survival(tail[k]!), tail[k]!, 'survival');
     const n = top - lo + 1;
     const coreIndex = core - lo;
     this.lo = lo;
     this.hi = hi;
     this.top = top;
-    const cdf = new Float64Array(n);
+    // One buffer per table: the whole-minute CDF, the far tail's points and (role 'density') the weights.
+    const farCount = hi > top ? (hi - top) / FAR_STEP + 1 : 0;
+    const weights = role === 'density' ? coreIndex + nodes : 0;
+    const store = new Float64Array(n + farCount + weights);
+    const cdf = store.subarray(0, n);
+    const far = store.subarray(n, n + farCount);
     this.cdf = cdf;
     this.coreLength = coreIndex + 1;
     this.highMass = tailSurvival[nodes - 1]!;
     if (role === 'cdf') {
       for (let x = lo; x <= core; x++) cdf[x - lo] = checked(dist.cdf(x), x, 'CDF');
       this.lowMass = cdf[0]!;
-      this.weight = new Float64Array(0);
-      this.tailIndex = new Int32Array(0);
-      this.tailWeight = new Float64Array(0);
+      this.weight = EMPTY;
+      this.tailIndex = EMPTY_INDEX;
+      this.tailWeight = EMPTY;
     } else {
       this.lowMass = checked(dist.cdf(lo), lo, 'CDF');
-      const weight = new Float64Array(this.coreLength);
-      const tailWeight = new Float64Array(nodes - 1);
+      const weight = store.subarray(n + farCount, n + farCount + coreIndex + 1);
+      const tailWeight = store.subarray(n + farCount + coreIndex + 1);
       const tailIndex = new Int32Array(nodes - 1);
       for (let k = 1; k < nodes; k++) tailIndex[k - 1] = tail[k]! - lo;
       for (let x = lo; x <= core; x++) weight[x - lo] = checkedDensity(dist.pdf(x), x);
@@ -169,13 +178,11 @@ export class DrawTable {
     // The core made monotone (rounding in a distribution's CDF could break it), then F at the
     // tail nodes: exact, never below what comes before.
     for (let i = 1; i <= coreIndex; i++) if (cdf[i]! < cdf[i - 1]!) cdf[i] = cdf[i - 1]!;
-    const nodeF = new Float64Array(nodes);
+    const nodeF = scratchNodeF;
     nodeF[0] = Math.max(cdf[coreIndex]!, 1 - tailSurvival[0]!);
     for (let k = 1; k < nodes; k++) nodeF[k] = Math.max(nodeF[k - 1]!, 1 - tailSurvival[k]!);
     // The thin tail between nodes: log S linear, clamped to the nodes' F, so F keeps increasing.
     // On the near tail S steps by a constant factor per minute; on the far tail per FAR_STEP.
-    const farCount = hi > top ? (hi - top) / FAR_STEP + 1 : 0;
-    const far = new Float64Array(farCount);
     for (let k = 0; k + 1 < nodes; k++) {
       const x0 = tail[k]!;
       const x1 = tail[k + 1]!;
@@ -264,6 +271,12 @@ export class DrawTable {
     return this.top + (a + t) * FAR_STEP;
   }
 }
+
+const EMPTY = new Float64Array(0);
+const EMPTY_INDEX = new Int32Array(0);
+// Per-node working values, reused from table to table (tables are built one at a time).
+let scratchSurvival = new Float64Array(128);
+let scratchNodeF = new Float64Array(128);
 
 function checked(value: number, x: number, what: string): number {
   if (!(value >= 0 && value <= 1)) throw new RangeError(`delay distribution gives an invalid ${what} (${value}) at ${x} minutes`);

@@ -19,23 +19,28 @@ export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly Trip
   const travelers = travelerIndex.size;
   const chosen = trips.map((t, k) => ({ trip: t, sim: sims[k] })).filter((x) => x.trip.optionRank === 1);
 
-  // Per simulation, which travellers missed; then the count. seen[who] holds the last simulation
-  // in which that traveller was counted, so nothing is cleared between simulations.
-  const who = Int32Array.from(chosen, (x) => travelerIndex.get(travelerKey(x.trip)) ?? 0);
-  const missed = chosen.map((x) => x.sim?.missed ?? new Uint8Array(simulations));
-  const seen = new Int32Array(travelers).fill(-1);
+  // Per traveller, whether any of their chosen trips missed a connection, simulation by
+  // simulation (OR over the trips), added into the count of each simulation.
+  const tripsOf = new Map<number, Uint8Array[]>();
+  for (const x of chosen) {
+    const w = travelerIndex.get(travelerKey(x.trip)) ?? 0;
+    const list = tripsOf.get(w) ?? [];
+    list.push(x.sim?.missed ?? new Uint8Array(simulations));
+    tripsOf.set(w, list);
+  }
   const counts = new Uint32Array(simulations);
-  for (let i = 0; i < simulations; i++) {
-    let count = 0;
-    for (let k = 0; k < missed.length; k++) {
-      if (!missed[k]![i]) continue;
-      const w = who[k]!;
-      if (seen[w] !== i) {
-        seen[w] = i;
-        count++;
+  const any = new Uint8Array(simulations);
+  for (const list of tripsOf.values()) {
+    let row = list[0]!;
+    if (list.length > 1) {
+      any.set(row);
+      for (let t = 1; t < list.length; t++) {
+        const other = list[t]!;
+        for (let i = 0; i < simulations; i++) any[i] = any[i]! | other[i]!;
       }
+      row = any;
     }
-    counts[i] = count;
+    for (let i = 0; i < simulations; i++) counts[i] = counts[i]! + row[i]!;
   }
   const distribution = new Array<number>(travelers + 1).fill(0);
   let sum = 0;

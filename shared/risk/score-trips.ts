@@ -11,7 +11,7 @@ import { RouteTables } from './delay-table';
 import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct } from './mct';
 import { rankOptions } from './option-ranking';
 import { summariseGroup } from './group-summary';
-import { flightKey, selectQuantiles, simulateTrips, type SimConnection, type SimFlight, type SimTrip } from './trip-simulation';
+import { flightKey, simulateTrips, type SimConnection, type SimFlight, type SimTrip } from './trip-simulation';
 import {
   RISK_CAUTION,
   type RiskFlag,
@@ -233,7 +233,6 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     const first = trip.legs[0] as Leg;
     const last = trip.legs[trip.legs.length - 1] as Leg;
     const hasDeadline = sim?.pByDeadline !== null && sim?.pByDeadline !== undefined;
-    const [p50, p90] = sim ? selectQuantiles(sim.arrivalDelay, [0.5, 0.9]) : [NaN, NaN];
     return {
       ...trip,
       connections: scoredConnections[k] ?? [],
@@ -241,7 +240,7 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       pAllConnections: mean(allByDraw),
       pAllConnectionsInterval: centralInterval(allByDraw, settings.intervalLevel),
       expectedArrivalDelayMinutes: sim?.meanArrivalDelay ?? NaN,
-      arrivalDelayQuantilesMinutes: { p50: p50 ?? NaN, p90: p90 ?? NaN },
+      arrivalDelayQuantilesMinutes: { p50: sim?.arrivalDelayP50 ?? NaN, p90: sim?.arrivalDelayP90 ?? NaN },
       pArriveByDeadline: sim?.pByDeadline ?? null,
       pOnTime: hasDeadline ? (sim?.pByDeadline ?? NaN) : (sim?.pWithin15 ?? NaN),
       onTimeBasis: hasDeadline ? ('deadline' as const) : ('within-15-minutes' as const),

@@ -43,11 +43,13 @@ export interface SimTrip {
 
 export interface TripSimulation {
   readonly simulations: number;
-  /** Final arrival delay (minutes, rebookings included) per simulation. */
-  readonly arrivalDelay: Float64Array;
-  /** 1 where at least one connection was missed. */
+  /** 1 where at least one connection was missed, per simulation. */
   readonly missed: Uint8Array;
+  /** Mean final arrival delay (minutes, rebookings included). */
   readonly meanArrivalDelay: number;
+  /** Median and 90% quantile of the final arrival delay (Hyndman & Fan definition 7). */
+  readonly arrivalDelayP50: number;
+  readonly arrivalDelayP90: number;
   /** P(arrival delay < 15 minutes). */
   readonly pWithin15: number;
   /** P(on or before the deadline), or null. */
@@ -60,9 +62,6 @@ export interface TripSimulation {
  * practice cancelled and its travellers rebooked, so longer draws count as two days.
  */
 export const MAX_SIMULATED_DELAY_MINUTES = 2880;
-
-/** Simulations per block (see simulateTrips). */
-const SIMULATION_BLOCK = 256;
 
 /** On time in the US BTS sense: arriving less than 15 minutes after schedule. */
 export const ON_TIME_TOLERANCE_MINUTES = 15;
@@ -89,83 +88,54 @@ export function flightStream(seed: number, key: string, kind: 'arrival' | 'depar
 export function simulateTrips(flights: readonly SimFlight[], trips: readonly SimTrip[], simulations: number, draws: number, seed: number): TripSimulation[] {
   if (!Number.isInteger(simulations) || simulations < 1) throw new RangeError(`simulations must be a whole number >= 1, got ${simulations}`);
   const n = simulations;
-  const arrivalStreams = flights.map((f) => (f.arrival ? flightStream(seed, f.key, 'arrival') : null));
-  const departureStreams = flights.map((f) => (f.departure ? flightStream(seed, f.key, 'departure') : null));
-  // The trips flattened into typed arrays: the inner loop runs trips x connections x simulations times.
-  const connStart = new Int32Array(trips.length + 1);
-  trips.forEach((t, k) => (connStart[k + 1] = connStart[k]! + t.connections.length));
-  const cIn = new Int32Array(connStart[trips.length]!);
-  const cOut = new Int32Array(cIn.length);
-  const cSlack = new Float64Array(cIn.length);
-  const last = new Int32Array(trips.length);
-  const gap = new Float64Array(trips.length);
-  trips.forEach((t, k) => {
-    t.connections.forEach((c, j) => {
-      cIn[connStart[k]! + j] = c.inbound;
-      cOut[connStart[k]! + j] = c.outbound;
-      cSlack[connStart[k]! + j] = c.slackMinutes;
-    });
-    last[k] = t.lastFlight;
-    gap[k] = t.rebookGapMinutes;
-  });
-  // Simulations run in blocks: each flight's delays for a block are drawn in one sweep, then
-  // each trip reads its flights' rows, so every array is walked in order.
-  const block = Math.min(n, SIMULATION_BLOCK);
-  const a = new Float64Array(flights.length * block);
-  const d = new Float64Array(flights.length * block);
-  const delays = new Float64Array(trips.length * n);
-  const missed = new Uint8Array(trips.length * n);
-  for (let i0 = 0; i0 < n; i0 += block) {
-    const size = Math.min(block, n - i0);
-    for (let f = 0; f < flights.length; f++) {
-      const flight = flights[f]!;
-      const row = f * block;
-      if (flight.arrival) {
-        const rng = arrivalStreams[f]!;
-        for (let j = 0; j < size; j++) a[row + j] = Math.min(MAX_SIMULATED_DELAY_MINUTES, flight.arrival.table((i0 + j) % draws).inverse(rng.uniform()));
-      }
-      if (flight.departure) {
-        const rng = departureStreams[f]!;
-        for (let j = 0; j < size; j++) d[row + j] = Math.min(MAX_SIMULATED_DELAY_MINUTES, flight.departure.table((i0 + j) % draws).inverse(rng.uniform()));
-      }
-    }
-    for (let k = 0; k < trips.length; k++) {
-      const g = gap[k]!;
-      const out = k * n + i0;
-      const lastRow = last[k]! * block;
-      for (let j = 0; j < size; j++) delays[out + j] = 0;
-      for (let c = connStart[k]!, end = connStart[k + 1]!; c < end; c++) {
-        const inRow = cIn[c]! * block;
-        const outRow = cOut[c]! * block;
-        const slack = cSlack[c]!;
-        for (let j = 0; j < size; j++) {
-          const shortfall = a[inRow + j]! - d[outRow + j]! - slack;
-          if (shortfall > 0) {
-            missed[out + j] = 1;
-            delays[out + j] = delays[out + j]! + Math.ceil(shortfall / g) * g;
-          }
+  // Each flight's delays in every simulation, drawn in one sweep of its own stream.
+  const sweep = (tables: RouteTables | undefined, stream: Rng): Float64Array => {
+    const row = new Float64Array(n);
+    if (!tables) return row;
+    for (let i = 0; i < n; i++) row[i] = Math.min(MAX_SIMULATED_DELAY_MINUTES, tables.table(i % draws).inverse(stream.uniform()));
+    return row;
+  };
+  const none = new Float64Array(0);
+  const arrivals = flights.map((f) => (f.arrival ? sweep(f.arrival, flightStream(seed, f.key, 'arrival')) : none));
+  const departures = flights.map((f) => (f.departure ? sweep(f.departure, flightStream(seed, f.key, 'departure')) : none));
+  // Then each trip in turn: its delays in one scratch row, summarised before the next trip.
+  const delay = new Float64Array(n);
+  const missedAll = new Uint8Array(trips.length * n);
+  return trips.map((trip, k) => {
+    const missed = missedAll.subarray(k * n, (k + 1) * n);
+    const g = trip.rebookGapMinutes;
+    delay.fill(0);
+    for (const c of trip.connections) {
+      const a = arrivals[c.inbound]!;
+      const d = departures[c.outbound]!;
+      const slack = c.slackMinutes;
+      for (let i = 0; i < n; i++) {
+        const shortfall = a[i]! - d[i]! - slack;
+        if (shortfall > 0) {
+          missed[i] = 1;
+          delay[i] = delay[i]! + Math.ceil(shortfall / g) * g;
         }
       }
-      for (let j = 0; j < size; j++) delays[out + j] = delays[out + j]! + a[lastRow + j]!;
     }
-  }
-  return trips.map((trip, k) => {
-    const delay = delays.subarray(k * n, (k + 1) * n);
+    const last = arrivals[trip.lastFlight]!;
     let sum = 0;
     let within = 0;
     let byDeadline = 0;
     const slack = trip.deadlineSlackMinutes;
     for (let i = 0; i < n; i++) {
-      const x = delay[i]!;
+      const x = delay[i]! + last[i]!;
+      delay[i] = x;
       sum += x;
       if (x < ON_TIME_TOLERANCE_MINUTES) within++;
       if (slack !== null && x <= slack) byDeadline++;
     }
+    const [p50, p90] = selectQuantiles(delay, [0.5, 0.9]);
     return {
       simulations: n,
-      arrivalDelay: delay,
-      missed: missed.subarray(k * n, (k + 1) * n),
+      missed,
       meanArrivalDelay: sum / n,
+      arrivalDelayP50: p50!,
+      arrivalDelayP90: p90!,
       pWithin15: within / n,
       pByDeadline: slack === null ? null : byDeadline / n,
     };
@@ -173,30 +143,79 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
 }
 
 /**
- * Quantiles (Hyndman & Fan definition 7) of values at each p, without sorting them all:
- * selections in one copy. NaN-free input assumed; empty input gives NaN.
+ * Quantiles (Hyndman & Fan definition 7) of values at each p, without sorting them all: the
+ * values are counted into equal-width buckets between their minimum and maximum, and each order
+ * statistic needed is selected among the values of its bucket only. NaN-free input assumed;
+ * empty input gives NaN; values are not modified.
  * @example selectQuantiles(Float64Array.of(3, 1, 2), [0.5]) // returns [2]
  */
 export function selectQuantiles(values: Float64Array, ps: readonly number[]): number[] {
   const n = values.length;
   if (n === 0) return ps.map(() => NaN);
-  const work = Float64Array.from(values);
-  return ps.map((p) => {
-    const h = (n - 1) * p;
-    const i = Math.floor(h);
-    const lo = select(work, i);
-    if (i + 1 >= n || h === i) return lo;
-    // After selecting i, everything right of i is >= work[i]; the next order statistic is their minimum.
-    let next = Infinity;
-    for (let j = i + 1; j < n; j++) if (work[j]! < next) next = work[j]!;
-    return lo + (h - i) * (next - lo);
-  });
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const x = values[i]!;
+    if (x < min) min = x;
+    if (x > max) max = x;
+  }
+  const scale = QUANTILE_BUCKETS / (max - min);
+  if (!(max > min) || !Number.isFinite(scale) || !Number.isFinite(min) || !Number.isFinite(max)) {
+    // All equal, or infinite values: select in a plain copy.
+    const work = Float64Array.from(values);
+    return ps.map((p) => interpolated(p, n, (r) => select(work, r, n)));
+  }
+  // bucket(x) = floor((x - min) * scale), capped: non-decreasing in x, so the buckets are ordered.
+  const counts = bucketCounts;
+  counts.fill(0);
+  if (bucketWork.length < n) {
+    bucketWork = new Float64Array(n);
+    bucketOf = new Uint16Array(n);
+  }
+  const work = bucketWork;
+  const of = bucketOf;
+  for (let i = 0; i < n; i++) {
+    const b = Math.min(QUANTILE_BUCKETS - 1, Math.floor((values[i]! - min) * scale));
+    of[i] = b;
+    counts[b]!++;
+  }
+  let gathered = -1;
+  let gatheredStart = 0;
+  let gatheredCount = 0;
+  const orderStatistic = (r: number): number => {
+    let b = 0;
+    let start = 0;
+    while (start + counts[b]! <= r) start += counts[b++]!;
+    if (b !== gathered) {
+      let m = 0;
+      for (let i = 0; i < n; i++) if (of[i] === b) work[m++] = values[i]!;
+      gathered = b;
+      gatheredStart = start;
+      gatheredCount = m;
+    }
+    return select(work, r - gatheredStart, gatheredCount);
+  };
+  return ps.map((p) => interpolated(p, n, orderStatistic));
 }
 
-// Hoare's quickselect with a middle pivot: leaves the k-th smallest at index k, smaller ones left of it.
-function select(a: Float64Array, k: number): number {
+const QUANTILE_BUCKETS = 1024;
+const bucketCounts = new Int32Array(QUANTILE_BUCKETS);
+let bucketWork = new Float64Array(0);
+let bucketOf = new Uint16Array(0);
+
+// Definition 7: the order statistics floor(h) and floor(h) + 1 (0-based), h = (n - 1) p, linearly.
+function interpolated(p: number, n: number, orderStatistic: (r: number) => number): number {
+  const h = (n - 1) * p;
+  const i = Math.floor(h);
+  const lo = orderStatistic(i);
+  if (i + 1 >= n || h === i) return lo;
+  return lo + (h - i) * (orderStatistic(i + 1) - lo);
+}
+
+// Hoare's quickselect with a middle pivot on a[0..length): the k-th smallest.
+function select(a: Float64Array, k: number, length: number): number {
   let left = 0;
-  let right = a.length - 1;
+  let right = length - 1;
   while (left < right) {
     const pivot = a[(left + right) >>> 1]!;
     let i = left;
