@@ -70,7 +70,12 @@ describe('fitting delay history in the page', () => {
     await expect.poll(() => page.getByText(/history-ontime-2024/).count()).toBeGreaterThan(0);
     await harness.screenshot(page, 'app-history-in-use');
 
+    // The page keeps the bundle and the choice (IndexedDB) across a reload.
+    await page.reload();
+    await page.getByTestId('app-info').waitFor();
     await page.getByRole('tab', { name: 'Delay history' }).click();
+    await expect.poll(() => bundles.getByText('In use', { exact: true }).count()).toBe(1);
+    await expect.poll(() => bundles.getByRole('button', { name: 'Use the bundled default' }).count()).toBe(1);
     await bundles.getByRole('button', { name: 'Use the bundled default' }).click();
     await page.getByText('Now scoring with the bundle that ships with Layline.').waitFor();
     await expect.poll(() => bundles.getByRole('button', { name: /^Use history-ontime-2024/ }).count()).toBe(1);
