@@ -86,14 +86,25 @@ export class DrawTable {
   /** F at top, top + FAR_STEP, ..., hi (empty when cdf reaches hi). */
   private readonly far: Float64Array;
 
+  /**
+   * Where the grid's three searches ended (the first minute with F > LOW_TAIL, with S <= HIGH_TAIL
+   * and with S <= CORE_TAIL): a nearby draw's table starts its searches there.
+   */
+  readonly searched: readonly [number, number, number];
+
+  /** `hint`: the searches' results of a similar draw, to start from (the answers do not depend on it). */
   constructor(
     readonly dist: DelayDistribution,
     readonly role: TableRole,
+    hint?: readonly [number, number, number],
   ) {
-    const lo = findFirst((x) => dist.cdf(x) > LOW_TAIL, SEARCH_LO, SEARCH_HI) - 1;
+    const first = findFirst((x) => dist.cdf(x) > LOW_TAIL, SEARCH_LO, SEARCH_HI, hint?.[0]);
+    const lo = first - 1;
     const hiCap = lo + MAX_SPAN_MINUTES;
-    let hi = Math.min(hiCap, findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI));
-    const core = Math.min(hi, findFirst((x) => dist.survival(x) <= CORE_TAIL, lo, hi));
+    const light = findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI, hint?.[1]);
+    let hi = Math.min(hiCap, light);
+    const core = Math.min(hi, findFirst((x) => dist.survival(x) <= CORE_TAIL, lo, hi, hint?.[2]));
+    this.searched = [first, light, core];
     const step = Math.max(1, Math.ceil((hi - core) / TAIL_NODES));
     const tail: number[] = [];
     // Steps grow geometrically from 2 minutes at the core's end up to `step`.
@@ -288,11 +299,40 @@ function checkedDensity(value: number, x: number): number {
   return value;
 }
 
-/** The first whole minute in (a, b] where a monotone predicate holds (b when none does). */
-function findFirst(holds: (x: number) => boolean, a0: number, b0: number): number {
-  let a = a0;
-  let b = b0;
-  if (holds(a)) return a;
+/**
+ * The first whole minute in [a0, b0] where a monotone predicate holds, b0 counting as holding.
+ * With a guess, the bracket grows from it in doubling steps before it is halved: fewer
+ * evaluations when the answer is near, the same answer.
+ */
+function findFirst(holds: (x: number) => boolean, a0: number, b0: number, guess?: number): number {
+  const at = (x: number) => x >= b0 || holds(x);
+  let a: number; // the predicate fails here (a0 - 1 stands for "below the range")
+  let b: number; // and holds here
+  if (guess === undefined || !(guess > a0 && guess < b0)) {
+    if (holds(a0)) return a0;
+    a = a0;
+    b = b0;
+  } else if (at(guess)) {
+    b = guess;
+    a = a0 - 1;
+    for (let step = 1; b - step >= a0; step *= 2) {
+      if (!at(b - step)) {
+        a = b - step;
+        break;
+      }
+      b -= step;
+    }
+  } else {
+    a = guess;
+    b = b0;
+    for (let step = 1; a + step < b0; step *= 2) {
+      if (at(a + step)) {
+        b = a + step;
+        break;
+      }
+      a += step;
+    }
+  }
   while (b - a > 1) {
     const mid = Math.floor((a + b) / 2);
     if (holds(mid)) b = mid;
@@ -341,13 +381,23 @@ export class RouteTables {
     return Math.floor(((t + 0.5) * this.posterior.drawCount) / this.draws);
   }
 
-  /** The table of joint draw t: a CDF table for arrivals, a density table for departures. */
+  /**
+   * The table of joint draw t: a CDF table for arrivals, a density table for departures. Tables
+   * are built in draw order (all before t too), each starting its grid searches where the one
+   * before ended, so a table never depends on the order in which they are asked for.
+   */
   table(t: number): DrawTable {
     let table = this.tables[t];
     if (!table) {
-      table = new DrawTable(this.posterior.draw(this.drawIndex(t)), this.posterior.kind === 'arrival' ? 'cdf' : 'density');
-      this.tables[t] = table;
+      const role = this.posterior.kind === 'arrival' ? 'cdf' : 'density';
+      for (; this.built <= t; this.built++) {
+        const s = this.built;
+        table = new DrawTable(this.posterior.draw(this.drawIndex(s)), role, this.tables[s - 1]?.searched);
+        this.tables[s] = table;
+      }
     }
-    return table;
+    return table!;
   }
+
+  private built = 0;
 }
