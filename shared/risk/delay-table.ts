@@ -85,6 +85,8 @@ export class DrawTable {
   private readonly top: number;
   /** F at top, top + FAR_STEP, ..., hi (empty when cdf reaches hi). */
   private readonly far: Float64Array;
+  /** The tail nodes from top to hi: minutes, S and F there (for the inverse beyond top). */
+  private readonly farNodes: Float64Array;
 
   /**
    * Where the grid's three searches ended (the first minute with F > LOW_TAIL, with S <= HIGH_TAIL
@@ -130,9 +132,11 @@ export class DrawTable {
     // One buffer per table: the whole-minute CDF, the far tail's points and (role 'density') the weights.
     const farCount = hi > top ? (hi - top) / FAR_STEP + 1 : 0;
     const weights = role === 'density' ? coreIndex + nodes : 0;
-    const store = new Float64Array(n + farCount + weights);
+    const farNodes = farCount > 0 ? nodes - near : 0;
+    const store = new Float64Array(n + farCount + weights + 3 * farNodes);
     const cdf = store.subarray(0, n);
     const far = store.subarray(n, n + farCount);
+    this.farNodes = store.subarray(n + farCount + weights);
     this.cdf = cdf;
     this.coreLength = coreIndex + 1;
     this.highMass = tailSurvival[nodes - 1]!;
@@ -219,9 +223,15 @@ export class DrawTable {
         }
       }
     }
-    cdf[n - 1] = nodeF[near < nodes ? near : nodes - 1]!;
+    // (With no thin tail at all, the last grid point keeps its own value, as F beyond it is exact.)
+    if (nodes > 1) cdf[n - 1] = nodeF[near < nodes ? near : nodes - 1]!;
     if (farCount > 0) far[farCount - 1] = nodeF[nodes - 1]!;
     this.far = far;
+    for (let k = 0; k < farNodes; k++) {
+      this.farNodes[3 * k] = tail[near + k]!;
+      this.farNodes[3 * k + 1] = tailSurvival[near + k]!;
+      this.farNodes[3 * k + 2] = nodeF[near + k]!;
+    }
     this.beyondHi = nodeF[nodes - 1]!;
     this.heavyTail = this.highMass > HIGH_TAIL;
   }
@@ -267,19 +277,25 @@ export class DrawTable {
       const t = fb > fa ? (u - fa) / (fb - fa) : 0;
       return this.lo + a + t;
     }
-    const far = this.far;
-    if (far.length === 0 || u > far[far.length - 1]!) return invertByBisection(this.dist, u, this.hi, SEARCH_HI);
+    // Beyond top: between the tail nodes, where log S is linear, solved exactly.
+    const nodes = this.farNodes;
+    const count = nodes.length / 3;
+    if (count === 0 || u > nodes[3 * count - 1]!) return invertByBisection(this.dist, u, this.hi, SEARCH_HI);
     let a = 0;
-    let b = far.length - 1;
+    let b = count - 1;
     while (b - a > 1) {
       const mid = (a + b) >>> 1;
-      if (far[mid]! < u) a = mid;
+      if (nodes[3 * mid + 2]! < u) a = mid;
       else b = mid;
     }
-    const fa = far[a]!;
-    const fb = far[b]!;
-    const t = fb > fa ? (u - fa) / (fb - fa) : 0;
-    return this.top + (a + t) * FAR_STEP;
+    const x0 = nodes[3 * a]!;
+    const x1 = nodes[3 * b]!;
+    const s0 = nodes[3 * a + 1]!;
+    const s1 = nodes[3 * b + 1]!;
+    if (s0 > 0 && s1 > 0 && s1 < s0) return Math.min(x1, Math.max(x0, x0 + (Math.log((1 - u) / s0) * (x1 - x0)) / Math.log(s1 / s0)));
+    const f0 = nodes[3 * a + 2]!;
+    const f1 = nodes[3 * b + 2]!;
+    return f1 > f0 ? x0 + ((x1 - x0) * (u - f0)) / (f1 - f0) : x0;
   }
 }
 

@@ -22,7 +22,11 @@ function mixtureDelay(mu: number, beta: number, w: number, mu2: number, beta2: n
   return mixtureDistribution([gumbelDistribution(mu, beta), gumbelDistribution(mu2, beta2)], [1 - w, w]);
 }
 
-/** Synthetic posteriors: per route, draws of a 5-parameter Gumbel mixture. */
+/**
+ * Synthetic posteriors: per route, draws of a 5-parameter Gumbel mixture. The parameters are drawn
+ * when a route is first asked for; each draw's distribution is made when it is first used, as
+ * the bundle source does (shared/delay/bundle/posterior-source.ts).
+ */
 export function benchSource(): PosteriorSource {
   const cache = new Map<string, RoutePosterior>();
   return {
@@ -34,11 +38,16 @@ export function benchSource(): PosteriorSource {
       const rng = createRng(hashKey(key));
       const mu = -4 + 8 * rng.uniform();
       const beta = 9 + 6 * rng.uniform();
-      const draws: DelayDistribution[] = [];
+      const parameters = new Float64Array(5 * DRAWS);
       for (let s = 0; s < DRAWS; s++) {
-        draws.push(mixtureDelay(mu + 1.5 * rng.normal(), beta * Math.exp(0.06 * rng.normal()), 0.06 + 0.04 * rng.uniform(), 25 + 10 * rng.normal(), 45 + 10 * rng.uniform()));
+        parameters.set([mu + 1.5 * rng.normal(), beta * Math.exp(0.06 * rng.normal()), 0.06 + 0.04 * rng.uniform(), 25 + 10 * rng.normal(), 45 + 10 * rng.uniform()], 5 * s);
       }
-      const posterior: RoutePosterior = { origin, destination, kind, pooling: 'route', flights: 300, derived: false, drawCount: DRAWS, draw: (s) => draws[s] as DelayDistribution };
+      const draws = new Array<DelayDistribution | undefined>(DRAWS);
+      const draw = (s: number): DelayDistribution => {
+        const p = parameters.subarray(5 * s, 5 * s + 5);
+        return (draws[s] ??= mixtureDelay(p[0]!, p[1]!, p[2]!, p[3]!, p[4]!));
+      };
+      const posterior: RoutePosterior = { origin, destination, kind, pooling: 'route', flights: 300, derived: false, drawCount: DRAWS, draw };
       cache.set(key, posterior);
       return posterior;
     },
