@@ -30,6 +30,12 @@ export interface LbfgsOutcome {
 }
 
 const STALL_WINDOW = 20;
+/**
+ * Curvature pairs the quasi-Newton model must hold before its predicted gain may end the fit:
+ * from one pair the model can be far off, and a fit started near (not at) the mode, such as a
+ * refit from an earlier fit, would stop after a step or two.
+ */
+const MIN_PAIRS_TO_STOP = 3;
 
 function dot(a: Float64Array, b: Float64Array): number {
   let s = 0;
@@ -132,7 +138,7 @@ export async function maximiseLbfgs(model: Model, options: MapOptions, loop: Fit
       for (let i = 0; i < n; i++) d[i] = -g[i]! * sc;
       slope = dot(g, d);
       if (!(slope < 0)) { converged = true; stopReason = 'zero gradient'; break; }
-    } else if (stored > 0 && -0.5 * slope < gainTol && lastGain < 10 * gainTol) {
+    } else if (stored >= Math.min(m, MIN_PAIRS_TO_STOP) && -0.5 * slope < gainTol && lastGain < 10 * gainTol) {
       // The quasi-Newton model predicts less than gainTol nats from a full step, and the last
       // step gained little too (a model built from few pairs can be badly wrong): at the mode.
       converged = true;

