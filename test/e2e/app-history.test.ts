@@ -93,7 +93,7 @@ describe('fitting delay history in the page', () => {
     expect(pageErrors(page)).toEqual([]);
   }, 120_000);
 
-  it('says clearly why a file that is not delay history cannot be used, and imports nothing', async () => {
+  it('says clearly why hostile files cannot be used (binary, one huge line, wrong columns) and imports nothing', async () => {
     const page = await openApp(harness);
     const bad = path.join(dir, 'binary.csv');
     await writeFile(bad, Buffer.from([0x50, 0x4b, 0x03, 0x04, 0, 0, 1, 2, 3]));
@@ -103,5 +103,29 @@ describe('fitting delay history in the page', () => {
     await page.getByRole('alert').filter({ hasText: 'The file could not be read' }).waitFor();
     expect(await page.getByRole('table', { name: 'Column mapping' }).count()).toBe(0);
     await harness.screenshot(page, 'app-history-bad-file');
+
+    // One line of 3 MB and no line break: no header can be found in the preview window.
+    const huge = path.join(dir, 'one-line.csv');
+    await writeFile(huge, 'x'.repeat(3_000_000));
+    const [again] = await Promise.all([page.waitForEvent('filechooser'), page.getByRole('button', { name: 'Choose a delay history file…' }).click()]);
+    await again.setFiles(huge);
+    await page.getByRole('alert').filter({ hasText: /no complete header line/ }).waitFor();
+
+    // Columns that hold none of the required fields: the fit cannot start until they are chosen.
+    const wrong = path.join(dir, 'wrong-columns.csv');
+    await writeFile(wrong, 'name,age,city\nAda,36,Oslo\nBen,41,Lima\n');
+    const [third] = await Promise.all([page.waitForEvent('filechooser'), page.getByRole('button', { name: 'Choose a delay history file…' }).click()]);
+    await third.setFiles(wrong);
+    await page.getByRole('table', { name: 'Column mapping' }).waitFor();
+    await page.getByText(/Choose a column for: flight date, origin airport, destination airport, arrival delay/).waitFor();
+    expect(await page.getByRole('button', { name: 'Fit and check' }).isDisabled()).toBe(true);
+    // Forcing nonsense columns gets the reader's own message, as a failed fit that saves nothing.
+    await page.getByLabel('Column for flight date').selectOption('name');
+    await page.getByLabel('Column for origin airport').selectOption('age');
+    await page.getByLabel('Column for destination airport').selectOption('city');
+    await page.getByLabel('Column for arrival delay (minutes)').selectOption('age');
+    await page.getByText(/Each column can hold one field; used twice: age/).waitFor();
+    expect(await page.getByRole('button', { name: 'Fit and check' }).isDisabled()).toBe(true);
+    expect(await page.getByRole('table', { name: 'Bundles' }).locator('tbody tr').count()).toBe(1);
   }, 60_000);
 });
