@@ -52,23 +52,25 @@ export function inverseFromCholesky(l: Float64Array, k: number): Float64Array {
 }
 
 /**
- * Minus the Hessian (the precision) of route r's block at phi, by central differences of its
+ * Minus the Hessian (the precision) of route r's block at phi, by forward differences of its
  * gradient, symmetrised. `natural` holds every other parameter.
  */
 export function routePrecision(model: TailMixtureModel, natural: Float64Array, route: number, phi: Float64Array): Float64Array {
   const { k } = model.layout;
   const precision = new Float64Array(k * k);
   const gp = new Float64Array(k);
-  const gm = new Float64Array(k);
+  const g0 = new Float64Array(k);
   const x = new Float64Array(k);
+  // Forward differences: k + 1 block gradients instead of central differences' 2k. The step's
+  // truncation error (order h times the third derivative) is far below what a Laplace variance
+  // needs, and the block gradient is the costliest call of the fit after the full gradient.
+  model.routeBlockLogDensityGrad(natural, route, phi, g0);
   for (let j = 0; j < k; j++) {
     const h = 1e-4 * Math.max(1, Math.abs(phi[j]!));
     x.set(phi);
     x[j] = phi[j]! + h;
     model.routeBlockLogDensityGrad(natural, route, x, gp);
-    x[j] = phi[j]! - h;
-    model.routeBlockLogDensityGrad(natural, route, x, gm);
-    for (let i = 0; i < k; i++) precision[i * k + j] = -(gp[i]! - gm[i]!) / (2 * h);
+    for (let i = 0; i < k; i++) precision[i * k + j] = -(gp[i]! - g0[i]!) / h;
   }
   for (let i = 0; i < k; i++) {
     for (let j = 0; j < i; j++) {
