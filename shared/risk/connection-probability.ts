@@ -101,34 +101,78 @@ export function pMakeIntervalAtLayover(pair: ConnectionPair, layoverMinutes: num
  * The smallest whole-minute layover L in [0, MAX_LAYOVER_MINUTES] with P(make at L) >= target;
  * null when even the longest does not reach it. target must lie in (0, 1), else RangeError.
  *
- * Brackets from a rough guess by doubling steps, then narrows the bracket on whole minutes by
- * linear interpolation between its ends (checking the minute next to each interpolated one, where
- * the answer usually is) or by halving it, so at the answer P >= target and at one minute less
- * P < target, exactly, for the same function. Only the number of evaluations depends on the
- * guess and the interpolation, never the answer.
+ * The same search runs twice: first on the mean over every GUIDE_STRIDE-th draw only (an eighth
+ * of the work per evaluation), from a rough guess; then on all draws, from that answer. Each
+ * brackets its start by doubling steps, then narrows the bracket on whole minutes by linear
+ * interpolation between its ends (checking the minute next to each interpolated one, where the
+ * answer usually is) or by halving it. So at the answer P >= target and at one minute less
+ * P < target, exactly, for the same function; only the number of evaluations depends on the
+ * guesses, never the answer.
  */
 export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target: number): number | null {
   if (!(target > 0 && target < 1)) throw new RangeError(`target must lie in (0, 1), got ${target}`);
   if (!Number.isInteger(mctMinutes)) throw new RangeError(`MCT must be whole minutes, got ${mctMinutes}`);
+  let guess = roughLayoverGuess(pair, mctMinutes, target);
+  let slope = NaN;
+  if (pair.draws >= 2 * GUIDE_STRIDE) {
+    const some: [DrawTable, DrawTable][] = [];
+    for (let t = GUIDE_STRIDE >> 1; t < pair.draws; t += GUIDE_STRIDE) some.push([pair.arrival.table(t), pair.departure.table(t)]);
+    const subset = (layover: number) => {
+      let sum = 0;
+      for (const [a, d] of some) sum += drawMakeProbability(a, d, layover - mctMinutes);
+      return sum / some.length;
+    };
+    const guide = searchMinimum(subset, guess, target, 4, NaN);
+    guess = guide.layover ?? MAX_LAYOVER_MINUTES;
+    slope = guide.slope;
+  }
+  return searchMinimum((layover) => pair.probability(layover - mctMinutes), guess, target, 1, slope).layover;
+}
+
+/** Every GUIDE_STRIDE-th draw guides the minimum-layover search. */
+const GUIDE_STRIDE = 8;
+
+// The smallest whole layover in [0, MAX_LAYOVER_MINUTES] where the non-decreasing p reaches
+// the target (null when none does), and p's rise over its last minute there. Searched from a
+// guess, with a first step of `step` minutes or, given p's slope per minute near the answer, the
+// step that slope says reaches the target.
+function searchMinimum(p: (layover: number) => number, guess: number, target: number, step: number, slope: number): { layover: number | null; slope: number } {
   let bad = -1; // largest layover known to miss the target (-1: none known)
   let pBad = 0;
   let good = MAX_LAYOVER_MINUTES + 1; // smallest layover known to reach it (past the end: none known)
   let pGood = 1;
   const probe = (layover: number): boolean => {
-    const p = pair.probability(layover - mctMinutes);
-    if (p >= target) {
+    const value = p(layover);
+    if (value >= target) {
       good = layover;
-      pGood = p;
+      pGood = value;
       return true;
     }
     bad = layover;
-    pBad = p;
+    pBad = value;
     return false;
   };
-  probe(Math.min(MAX_LAYOVER_MINUTES, Math.max(0, roughLayoverGuess(pair, mctMinutes, target))));
-  for (let step = 4; good - bad > 1 && (bad < 0 || good > MAX_LAYOVER_MINUTES); step *= 2) {
-    if (bad >= MAX_LAYOVER_MINUTES) return null;
-    probe(bad < 0 ? Math.max(0, good - step) : Math.min(MAX_LAYOVER_MINUTES, bad + step));
+  let x = Math.min(MAX_LAYOVER_MINUTES, Math.max(0, Number.isFinite(guess) ? guess : 0));
+  let px = p(x);
+  probe(x);
+  // Bracket: steps that double, or the secant through the last two probes where it points
+  // further (at most 8 steps), away from the side already known.
+  for (; good - bad > 1 && (bad < 0 || good > MAX_LAYOVER_MINUTES); step *= 2) {
+    if (bad >= MAX_LAYOVER_MINUTES) return { layover: null, slope: NaN };
+    const up = bad >= 0;
+    const from = up ? bad : good;
+    let next = up ? from + step : from - step;
+    if (x === from && slope > 0) {
+      const jump = Math.min(64, Math.ceil(Math.abs(target - px) / slope));
+      next = up ? from + Math.max(1, jump) : from - Math.max(1, jump);
+    } else if (x !== from) {
+      const secant = from + ((target - (up ? pBad : pGood)) * (from - x)) / ((up ? pBad : pGood) - px);
+      if (Number.isFinite(secant)) next = up ? Math.min(from + 8 * step, Math.max(next, Math.ceil(secant))) : Math.max(from - 8 * step, Math.min(next, Math.floor(secant)));
+    }
+    next = Math.min(MAX_LAYOVER_MINUTES, Math.max(0, next));
+    x = from;
+    px = up ? pBad : pGood;
+    probe(next);
   }
   // Interpolate while that at least halves the bracket; after one that does not, halve it once.
   let interpolate = true;
@@ -146,7 +190,7 @@ export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target:
       interpolate = true;
     }
   }
-  return good > MAX_LAYOVER_MINUTES ? null : good;
+  return { layover: good > MAX_LAYOVER_MINUTES ? null : good, slope: pGood - pBad };
 }
 
 // A starting point for the bracket, from the middle draw: the medians' difference plus the two

@@ -117,6 +117,31 @@ describe('monotonicity and the minimum layover', () => {
     }
   });
 
+  // Reference: a plain scan upward from 0 minutes on the same P(make), minute by minute.
+  it('agrees with a minute-by-minute scan, whatever the guesses', () => {
+    const rng = createRng(29);
+    const spread = (kind: 'arrival' | 'departure', mu: number, beta: number, sd: number) =>
+      new RouteTables(gumbelRoute('ORD', 'DEN', kind, Array.from({ length: 24 }, () => ({ mu: mu + sd * rng.normal(), beta: beta * Math.exp(0.5 * rng.normal()) }))), 24);
+    const cases = [
+      new ConnectionPair(spread('arrival', 10, 12, 5), spread('departure', 0, 10, 3)),
+      // Draws that disagree wildly, so the guiding subset of draws is a poor guide.
+      new ConnectionPair(spread('arrival', 30, 4, 60), spread('departure', 0, 30, 40)),
+      pairs['heavy-tailed mixture'],
+    ];
+    for (const pair of cases) {
+      for (const target of [0.3, 0.9, 0.97]) {
+        let scan: number | null = null;
+        for (let layover = 0; layover <= 1440; layover++) {
+          if (pMakeAtLayover(pair, layover, 45) >= target) {
+            scan = layover;
+            break;
+          }
+        }
+        expect(minimumLayover(pair, 45, target), `target ${target}`).toBe(scan);
+      }
+    }
+  });
+
   it('returns 0 when even no layover reaches the target, and null when no layover up to a day does', () => {
     const early = new ConnectionPair(
       new RouteTables(gumbelRoute('ORD', 'DEN', 'arrival', [{ mu: -200, beta: 5 }]), 1),
