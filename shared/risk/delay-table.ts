@@ -25,6 +25,7 @@ const SEARCH_HI = 7200;
 const NEAR_TAIL_MINUTES = 240;
 /** Spacing of the far tail's points (minutes); a power of two, so positions in a cell are exact. */
 const FAR_STEP = 8;
+const FAR_SHIFT = 3;
 
 /**
  * What a table is for: 'cdf' (the inbound arrival delay, whose CDF the quadrature looks up) or
@@ -246,13 +247,13 @@ export class DrawTable {
     const cdf = this.cdf;
     if (i < cdf.length) return cdf[i]!;
     if (x >= this.hi) return this.beyondHi;
-    // Linear between far points: FAR_STEP is a power of two, so the position t is exact and
-    // F rises from far[j] to no more than far[j + 1].
+    // Linear between far points. FAR_STEP is a power of two, so the position in the cell is exact,
+    // and F >= 0.99 here, so far[j + 1] - far[j] is exact (Sterbenz): F rises from far[j] to at
+    // most far[j + 1].
     const offset = x - this.top;
-    const j = Math.floor(offset / FAR_STEP);
-    const t = (offset - j * FAR_STEP) / FAR_STEP;
+    const j = offset >> FAR_SHIFT;
     const f0 = this.far[j]!;
-    return Math.min(this.far[j + 1]!, f0 + (this.far[j + 1]! - f0) * t);
+    return f0 + (this.far[j + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP);
   }
 
   /**
