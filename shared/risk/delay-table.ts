@@ -5,6 +5,18 @@
 // and the trip simulation cheap: both only ever look up F at whole minutes.
 import type { DelayDistribution, RoutePosterior } from '../delay/predictive';
 
+/**
+ * What the tables can use when a distribution offers it: F or f at the whole minutes
+ * lo, lo + 1, ..., lo + out.length - 1, written into out, equal to cdf(x) and pdf(x) up to
+ * rounding. Evaluating a run of minutes at once lets a distribution step its terms by constant
+ * ratios (e^{-z} of a Gumbel) instead of starting every point afresh, which is where a scoring
+ * run spends most of its time. Without them the tables call cdf and pdf point by point.
+ */
+export interface GridEvaluation {
+  cdfGrid?(lo: number, out: Float64Array): void;
+  pdfGrid?(lo: number, out: Float64Array): void;
+}
+
 /** Mass left out below the grid: F(lo) is at most this. */
 const LOW_TAIL = 1e-10;
 /** Mass left out above the grid for a light tail: S(hi) is at most this. */
@@ -142,7 +154,11 @@ export class DrawTable {
     this.coreLength = coreIndex + 1;
     this.highMass = tailSurvival[nodes - 1]!;
     if (role === 'cdf') {
-      for (let x = lo; x <= core; x++) cdf[x - lo] = checked(dist.cdf(x), x, 'CDF');
+      const grid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
+      if (grid) {
+        grid.call(dist, lo, cdf.subarray(0, coreIndex + 1));
+        for (let i = 0; i <= coreIndex; i++) checked(cdf[i]!, lo + i, 'CDF');
+      } else for (let x = lo; x <= core; x++) cdf[x - lo] = checked(dist.cdf(x), x, 'CDF');
       this.lowMass = cdf[0]!;
       this.weight = EMPTY;
       this.tailIndex = EMPTY_INDEX;
@@ -153,7 +169,11 @@ export class DrawTable {
       const tailWeight = store.subarray(n + farCount + coreIndex + 1);
       const tailIndex = new Int32Array(nodes - 1);
       for (let k = 1; k < nodes; k++) tailIndex[k - 1] = tail[k]! - lo;
-      for (let x = lo; x <= core; x++) weight[x - lo] = checkedDensity(dist.pdf(x), x);
+      const grid = (dist as DelayDistribution & GridEvaluation).pdfGrid;
+      if (grid) {
+        grid.call(dist, lo, weight);
+        for (let i = 0; i <= coreIndex; i++) checkedDensity(weight[i]!, lo + i);
+      } else for (let x = lo; x <= core; x++) weight[x - lo] = checkedDensity(dist.pdf(x), x);
       weight[coreIndex] = weight[coreIndex]! / 2;
       // Euler-Maclaurin end correction of the core's trapezoid at its last point c:
       // -(1/12) (f g)'(c), with f'(c) by a central difference and g'(c) ~ (g(c+2) - g(c-2)) / 4,

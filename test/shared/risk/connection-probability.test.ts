@@ -51,6 +51,36 @@ describe('drawMakeProbability', () => {
   });
 });
 
+describe('distributions that evaluate runs of minutes at once', () => {
+  // A Gumbel whose cdfGrid and pdfGrid step e^{-z} by the ratio e^{-1/beta} per minute.
+  function steppedGumbel(mu: number, beta: number, calls: { n: number }) {
+    const g = gumbelDelay(mu, beta);
+    const run = (lo: number, out: Float64Array, density: boolean) => {
+      calls.n++;
+      const q = Math.exp(-1 / beta);
+      let t = Math.exp(-(lo - mu) / beta);
+      for (let i = 0; i < out.length; i++, t *= q) out[i] = density ? (t * Math.exp(-t)) / beta : Math.exp(-t);
+    };
+    return { ...g, cdfGrid: (lo: number, out: Float64Array) => run(lo, out, false), pdfGrid: (lo: number, out: Float64Array) => run(lo, out, true) };
+  }
+
+  it('give the same tables and P(make) as point-by-point calls, and the logistic closed form (@stdlib/stats-base-dists-logistic)', () => {
+    const calls = { n: 0 };
+    const arr = new DrawTable(steppedGumbel(5, 12, calls), 'cdf');
+    const dep = new DrawTable(steppedGumbel(2, 12, calls), 'density');
+    expect(calls.n).toBe(2);
+    const plainArr = new DrawTable(gumbelDelay(5, 12), 'cdf');
+    const plainDep = new DrawTable(gumbelDelay(2, 12), 'density');
+    expect(arr.cdf.length).toBe(plainArr.cdf.length);
+    arr.cdf.forEach((v, i) => closeTo(v, plainArr.cdf[i]!, 1e-13, `F at minute ${arr.lo + i}`));
+    dep.weight.forEach((v, i) => closeTo(v, plainDep.weight[i]!, 1e-13, `weight at minute ${dep.lo + i}`));
+    for (const m of [-20, 0, 15, 60]) {
+      closeTo(drawMakeProbability(arr, dep, m), drawMakeProbability(plainArr, plainDep, m), 1e-12, `m=${m}`);
+      closeTo(drawMakeProbability(arr, dep, m), logistic.cdf(m, 3, 12), 2e-5, `closed form, m=${m}`);
+    }
+  });
+});
+
 describe('ConnectionPair', () => {
   it('averages the closed form over posterior draws (@stdlib/stats-base-dists-logistic)', () => {
     const { pair, a, d } = equalScalePair(8, 3, 15, 40);
