@@ -37,6 +37,13 @@ const SEARCH_HI = 7200;
 const NEAR_TAIL_MINUTES = 240;
 /** Spacing of the far tail's points (minutes); a power of two, so positions in a cell are exact. */
 const FAR_STEP = 8;
+/**
+ * How far the end-corrected trapezoid's mass over the core may stray from the exact
+ * F(core) - F(lo) before the core's weights are replaced by exact cell masses (see the density
+ * branch below). Smooth densities a few minutes wide stray by far less; a jump of density f0
+ * between two minutes strays by up to f0 / 2, which for a bundle's severe component is 1e-4 or more.
+ */
+const CORE_MASS_TOLERANCE = 1e-5;
 const FAR_SHIFT = 3;
 
 /**
@@ -186,13 +193,49 @@ export class DrawTable {
         weight[coreIndex - 2] = weight[coreIndex - 2]! + fc / 48;
         endCorrection = fc / 48;
       }
-      // The CDF on the core by the cumulative trapezoid rule, for simulation only.
-      let f = this.lowMass;
-      cdf[0] = f;
-      for (let i = 1; i <= coreIndex; i++) {
-        // weight[coreIndex] holds half the density there (the trapezoid's end).
-        f += (weight[i - 1]! + weight[i]! * (i === coreIndex ? 2 : 1)) / 2;
-        cdf[i] = Math.min(1, f);
+      // The trapezoid is exact only for a smooth density. A density with a jump (a component
+      // that starts at some minute) or a spike narrower than a minute integrates to the wrong
+      // mass; then the core's weights become exact cell masses, F(x + 1/2) - F(x - 1/2), a
+      // midpoint rule that is right to order h^2 whatever the density does.
+      let coreMass = -endCorrection;
+      for (let i = 0; i <= coreIndex; i++) coreMass += weight[i]!;
+      const exactCoreMass = 1 - tailSurvival[0]! - this.lowMass;
+      if (Math.abs(coreMass - exactCoreMass) > CORE_MASS_TOLERANCE) {
+        endCorrection = 0;
+        weight.fill(0);
+        let previous = this.lowMass;
+        cdf[0] = previous;
+        for (let i = 0; i < coreIndex; i++) {
+          const x = lo + i;
+          const upper = Math.max(previous, checked(dist.cdf(x + 0.5), x + 0.5, 'CDF'));
+          const mass = upper - previous;
+          if (i === 0) weight[0]! += mass;
+          else {
+            const mid = Math.min(upper, Math.max(previous, checked(dist.cdf(x), x, 'CDF')));
+            cdf[i] = mid;
+            // The cell's centre of mass from Simpson's rule on F over the cell, and its mass
+            // split between the two nearest minutes so that a g linear across them is exact
+            // (a spike at x + 0.4 is not counted at x).
+            const offset = mass > 0 ? 0.5 - (4 * (mid - previous) + mass) / (6 * mass) : 0;
+            const side = offset >= 0 ? 1 : -1;
+            const share = Math.min(0.5, Math.abs(offset));
+            weight[i]! += mass * (1 - share);
+            weight[i + side]! += mass * share;
+          }
+          previous = upper;
+        }
+        const coreF = 1 - tailSurvival[0]!;
+        weight[coreIndex]! += Math.max(0, coreF - previous);
+        cdf[coreIndex] = coreF;
+      } else {
+        // The CDF on the core by the cumulative trapezoid rule, for simulation only.
+        let f = this.lowMass;
+        cdf[0] = f;
+        for (let i = 1; i <= coreIndex; i++) {
+          // weight[coreIndex] holds half the density there (the trapezoid's end).
+          f += (weight[i - 1]! + weight[i]! * (i === coreIndex ? 2 : 1)) / 2;
+          cdf[i] = Math.min(1, f);
+        }
       }
       // Each tail cell's exact mass goes to its two ends in the ratio that puts its centre of
       // mass right for an exponential density across the cell (rate from the two survivals), so
