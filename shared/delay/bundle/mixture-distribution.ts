@@ -25,6 +25,9 @@ interface Component {
   readonly logConstant: number;
 }
 
+/** How often cdfGrid and pdfGrid recompute a Gumbel's e^{-z} instead of stepping it. */
+const RESYNC_MINUTES = 32;
+
 function sigmoid(x: number): number {
   return 1 / (1 + Math.exp(-x));
 }
@@ -154,6 +157,43 @@ export class TailMixtureDistribution implements DelayDistribution {
     let sum = 0;
     for (const l of logs) sum += Math.exp(l - top);
     return top + Math.log(sum);
+  }
+
+  /**
+   * F at the whole minutes lo, lo + 1, ..., into out (the risk tables' GridEvaluation), equal to
+   * cdf(x) up to rounding: a Gumbel's e^{-z} is stepped by the constant ratio e^{-1/beta} per
+   * minute and recomputed every RESYNC_MINUTES, so one exp per point and component remains.
+   */
+  cdfGrid(lo: number, out: Float64Array): void {
+    this.grid(lo, out, false);
+  }
+
+  /** f at the whole minutes lo, lo + 1, ..., into out, equal to pdf(x) up to rounding. */
+  pdfGrid(lo: number, out: Float64Array): void {
+    this.grid(lo, out, true);
+  }
+
+  private grid(lo: number, out: Float64Array, density: boolean): void {
+    out.fill(0);
+    const n = out.length;
+    for (const c of this.parts) {
+      if (c.kind !== 'gumbel') {
+        for (let i = 0; i < n; i++) out[i]! += c.weight * (density ? componentPdf(c, lo + i) : componentCdf(c, lo + i));
+        continue;
+      }
+      const ratio = Math.exp(-1 / c.scale);
+      const scale = c.weight / c.scale;
+      let t = 0;
+      for (let i = 0; i < n; i++) {
+        // Recompute e^{-z} directly now and then: no drift, and no Infinity carried forward
+        // from far below the location, where e^{-z} overflows.
+        if (i % RESYNC_MINUTES === 0 || !Number.isFinite(t)) t = Math.exp(-(lo + i - c.location) / c.scale);
+        else t *= ratio;
+        const f = Math.exp(-t);
+        // f underflows to 0 long before t overflows; multiplying t by f first keeps 0 * Infinity out.
+        out[i]! += density ? (f === 0 ? 0 : scale * (t * f)) : c.weight * f;
+      }
+    }
   }
 
   sample(rng: Rng): number {

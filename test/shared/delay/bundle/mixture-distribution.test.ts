@@ -1,0 +1,51 @@
+// The bundle's per-draw distribution evaluated a run of minutes at once (cdfGrid, pdfGrid, used
+// by the risk tables) against its own point-by-point cdf and pdf, whose Gumbel part is checked
+// against @stdlib/stats-base-dists-gumbel in test/shared/delay/gumbel.test.ts.
+import { describe, expect, it } from 'vitest';
+import { TailMixtureDistribution } from '../../../../shared/delay/bundle/mixture-distribution';
+import { FAMILY_PARAMETERS, type TailFamily } from '../../../../shared/delay/models/tail-mixture';
+import { createRng } from '../../../../shared/inference/rng';
+
+const FAMILIES = Object.keys(FAMILY_PARAMETERS) as TailFamily[];
+
+function randomEta(family: TailFamily, seed: number): number[] {
+  const rng = createRng(seed);
+  // Locations in minutes, log scales around 1.5-3.5 (4.5 to 33 minutes), logits around -1.5.
+  return FAMILY_PARAMETERS[family].map((_, j) => (j === 0 || j === 2 ? 20 * rng.normal() : j === 4 || j === 7 ? -1.5 + rng.normal() : 2.5 + 0.5 * rng.normal()));
+}
+
+describe.each(FAMILIES)('TailMixtureDistribution %s on a grid', (family) => {
+  it.each([
+    { lo: -120, n: 600, shift: 0, seed: 1 },
+    { lo: -2880, n: 3000, shift: 6.1, seed: 2 },
+    { lo: 37, n: 5, shift: -3, seed: 3 },
+  ])('matches cdf and pdf minute by minute from $lo ($n minutes, shift $shift)', ({ lo, n, shift, seed }) => {
+    const dist = new TailMixtureDistribution(family, randomEta(family, seed), 4, shift);
+    const F = new Float64Array(n);
+    const f = new Float64Array(n);
+    dist.cdfGrid(lo, F);
+    dist.pdfGrid(lo, f);
+    for (let i = 0; i < n; i++) {
+      const x = lo + i;
+      const cdf = dist.cdf(x);
+      const pdf = dist.pdf(x);
+      if (!(Math.abs(F[i]! - cdf) <= 1e-12 + 1e-12 * cdf)) throw new Error(`${family} F(${x}): grid ${F[i]}, point ${cdf}`);
+      if (!(Math.abs(f[i]! - pdf) <= 1e-15 + 1e-11 * pdf)) throw new Error(`${family} f(${x}): grid ${f[i]}, point ${pdf}`);
+    }
+    expect(F.every((v) => Number.isFinite(v))).toBe(true);
+  });
+});
+
+describe('TailMixtureDistribution on a grid, extreme draws', () => {
+  it('stays finite and equal to the point values for a typical scale of 0.03 minutes', () => {
+    // A population draw can be this narrow; far below its location e^{-z} overflows.
+    const eta = [2, Math.log(0.03), 30, Math.log(25), -1.5, Math.log(40), Math.log(1.2), -1];
+    const dist = new TailMixtureDistribution('gumbel-gumbel-lomax', eta, 4, 6.1);
+    const f = new Float64Array(600);
+    const F = new Float64Array(600);
+    dist.pdfGrid(-300, f);
+    dist.cdfGrid(-300, F);
+    f.forEach((v, i) => expect(Math.abs(v - dist.pdf(-300 + i))).toBeLessThanOrEqual(1e-15 + 1e-11 * dist.pdf(-300 + i)));
+    F.forEach((v, i) => expect(Math.abs(v - dist.cdf(-300 + i))).toBeLessThanOrEqual(1e-12));
+  });
+});
