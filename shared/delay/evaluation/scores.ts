@@ -37,14 +37,22 @@ export interface LogScore {
 }
 
 /** log of the mean density over draws, in log space when the draws offer logPdf (no underflow far in a tail). */
-function logMeanDensity(draws: readonly DelayDistribution[], y: number): number {
-  if (draws.every((d) => d.logPdf)) {
+let scratchLogs = new Float64Array(0);
+
+function logMeanDensity(draws: readonly DelayDistribution[], y: number, logs: boolean): number {
+  if (logs) {
+    // Each draw's log density once (it is the costly call), then log-sum-exp.
+    if (scratchLogs.length < draws.length) scratchLogs = new Float64Array(draws.length);
     let top = -Infinity;
-    for (const d of draws) top = Math.max(top, d.logPdf!(y));
+    for (let s = 0; s < draws.length; s++) {
+      const l = draws[s]!.logPdf!(y);
+      scratchLogs[s] = l;
+      if (l > top) top = l;
+    }
     if (top === -Infinity) return -Infinity;
-    let s = 0;
-    for (const d of draws) s += Math.exp(d.logPdf!(y) - top);
-    return top + Math.log(s / draws.length);
+    let sum = 0;
+    for (let s = 0; s < draws.length; s++) sum += Math.exp(scratchLogs[s]! - top);
+    return top + Math.log(sum / draws.length);
   }
   let p = 0;
   for (const d of draws) p += d.pdf(y);
@@ -60,15 +68,17 @@ export function logPredictiveDensity(data: WeightedData, predictiveFor: Predicti
   let flights = 0;
   let cachedGroup = -1;
   let draws: DelayDistribution[] = [];
+  let logs = false;
   for (let i = 0; i < data.group.length; i++) {
     const g = data.group[i]!;
     if (g !== cachedGroup) {
       draws = drawsOf(predictiveFor(g));
+      logs = draws.every((d) => d.logPdf);
       cachedGroup = g;
     }
     const y = data.value[i]!;
     const n = data.count[i]!;
-    total += n * logMeanDensity(draws, y);
+    total += n * logMeanDensity(draws, y, logs);
     flights += n;
   }
   return { totalNats: total, flights, natsPerFlight: flights > 0 ? total / flights : NaN };
