@@ -253,7 +253,7 @@ function BundleList({ library, error, onUse }: { library: Library | null; error:
   const defaultBundle: BundleView = library.default;
   return (
     <div class="table-wrap">
-      <table class="trip-table" aria-label="Bundles">
+      <table class="data-table" aria-label="Bundles">
         <thead>
           <tr>
             <th scope="col">Bundle</th>
@@ -346,7 +346,7 @@ function ColumnMapping({ file, preview, choice, onChoice, disabled }: { file: Ch
         <strong>{file.name}</strong> ({megabytes(file.bytes)}, {preview.format === 'parquet' ? 'Parquet' : 'delimited text'}).{' '}
         {preview.detection.layout === 'bts' ? 'Recognised the U.S. BTS on-time performance layout: delays are actual minus scheduled minutes, negative when early.' : 'Check that each field below points at the right column.'}
       </p>
-      <table class="trip-table mapping-table" aria-label="Column mapping">
+      <table class="data-table mapping-table" aria-label="Column mapping">
         <thead>
           <tr>
             <th scope="col">Field</th>
@@ -424,7 +424,7 @@ function FitProgress({ job, colors, onCancel }: { job: JobStatus; colors: ChartC
 
 function TailTable({ rows, label }: { rows: readonly TailRow[]; label: string }) {
   return (
-    <table class="trip-table calibration-table" aria-label={label}>
+    <table class="data-table calibration-table" aria-label={label}>
       <thead>
         <tr>
           <th scope="col">Delay over</th>
