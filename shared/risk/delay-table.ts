@@ -121,9 +121,18 @@ export class DrawTable {
     hint?: readonly [number, number, number],
   ) {
     const first = findFirst((x) => dist.cdf(x) > LOW_TAIL, SEARCH_LO, SEARCH_HI, hint?.[0]);
-    const lo = first - 1;
-    const hiCap = lo + MAX_SPAN_MINUTES;
+    let lo = first - 1;
     const light = findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI, hint?.[1]);
+    if (light - lo > MAX_SPAN_MINUTES) {
+      // Wider than the grid at both ends (a population draw for airports absent from the data
+      // can spread over days): keep at most a quarter of the span below the median, so the
+      // window holds the bulk of the mass and the far masses are lumped at its two ends, where
+      // F_A(m + d) is already near 0 or near 1, instead of starting days early and cutting
+      // the bulk off. A heavy upper tail alone keeps its natural start.
+      const median = findFirst((x) => dist.cdf(x) >= 0.5, lo, SEARCH_HI);
+      lo = Math.max(lo, median - Math.floor(MAX_SPAN_MINUTES / 4));
+    }
+    const hiCap = lo + MAX_SPAN_MINUTES;
     let hi = Math.min(hiCap, light);
     const core = Math.min(hi, findFirst((x) => dist.survival(x) <= CORE_TAIL, lo, hi, hint?.[2]));
     this.searched = [first, light, core];
