@@ -42,6 +42,12 @@ function showSave(options: Electron.SaveDialogOptions): Promise<Electron.SaveDia
   return mainWindow ? dialog.showSaveDialog(mainWindow, options) : dialog.showSaveDialog(options);
 }
 
+/** One existing file of the given kind (or any file), or null when the user cancels. */
+async function chooseOneFile(title: string, kind: Electron.FileFilter): Promise<string | null> {
+  const r = await showOpen({ title, properties: ['openFile'], filters: [kind, { name: 'All files', extensions: ['*'] }] });
+  return r.canceled ? null : (r.filePaths[0] ?? null);
+}
+
 /** macOS sends open-file before the app is ready; those paths wait here. */
 let openFromOs: (filePath: string) => void = (filePath) => earlyOpens.push(filePath);
 const earlyOpens: string[] = [];
@@ -134,28 +140,8 @@ app.whenReady().then(async () => {
         const r = await showSave({ title: 'Save the workspace', defaultPath: current ?? path.join(app.getPath('documents'), `workspace.${WORKSPACE_EXTENSION}`), filters: workspaceFilters });
         return r.canceled ? null : (r.filePath ?? null);
       },
-      chooseTripsFile: async () => {
-        const r = await showOpen({
-          title: 'Import trips',
-          properties: ['openFile'],
-          filters: [
-            { name: 'Trips (CSV, TSV, text, iCalendar)', extensions: ['csv', 'tsv', 'txt', 'ics'] },
-            { name: 'All files', extensions: ['*'] },
-          ],
-        });
-        return r.canceled ? null : (r.filePaths[0] ?? null);
-      },
-      chooseHistoryFile: async () => {
-        const r = await showOpen({
-          title: 'Choose a delay history file',
-          properties: ['openFile'],
-          filters: [
-            { name: 'Delay history (CSV, Parquet)', extensions: ['csv', 'tsv', 'txt', 'parquet'] },
-            { name: 'All files', extensions: ['*'] },
-          ],
-        });
-        return r.canceled ? null : (r.filePaths[0] ?? null);
-      },
+      chooseTripsFile: () => chooseOneFile('Import trips', { name: 'Trips (CSV, TSV, text, iCalendar)', extensions: ['csv', 'tsv', 'txt', 'ics'] }),
+      chooseHistoryFile: () => chooseOneFile('Choose a delay history file', { name: 'Delay history (CSV, Parquet)', extensions: ['csv', 'tsv', 'txt', 'parquet'] }),
       historyGate,
       setTheme: (theme) => {
         nativeTheme.themeSource = theme;

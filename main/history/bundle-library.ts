@@ -26,7 +26,7 @@ export class BundleLibrary implements BundleStore {
     const file = path.join(this.folder, fileNameFor(valid.id));
     await mkdir(this.folder, { recursive: true });
     await writeFileAtomic(file, JSON.stringify(valid));
-    return this.entry(valid, file, (await this.active()).kind === 'library' && (await this.activeId()) === valid.id);
+    return libraryEntryOf(valid, file, (await this.activeId()) === valid.id);
   }
 
   /** Every bundle in the folder, newest first, plus the files that could not be read and why. */
@@ -45,7 +45,7 @@ export class BundleLibrary implements BundleStore {
       const file = path.join(this.folder, name);
       try {
         const bundle = validateBundle(JSON.parse(await readFile(file, 'utf8')));
-        entries.push(this.entry(bundle, file, bundle.id === activeId));
+        entries.push(libraryEntryOf(bundle, file, bundle.id === activeId));
       } catch (err) {
         unreadable.push({ file, reason: err instanceof Error ? err.message : String(err) });
       }
@@ -89,9 +89,5 @@ export class BundleLibrary implements BundleStore {
     } catch {
       return null;
     }
-  }
-
-  private entry(bundle: PosteriorBundle, file: string, active: boolean): LibraryEntry {
-    return libraryEntryOf(bundle, file, active);
   }
 }

@@ -126,13 +126,7 @@ export const apiContract = {
    * background job (status with progress, ETA and the objective trace; cancel), save the fitted
    * bundle, list the bundles and choose the one the engine scores with.
    */
-  previewHistory: request(HISTORY_REQUESTS.previewHistory.args, HISTORY_REQUESTS.previewHistory.result),
-  startHistoryFit: request(HISTORY_REQUESTS.startHistoryFit.args, HISTORY_REQUESTS.startHistoryFit.result),
-  historyFitStatus: request(HISTORY_REQUESTS.historyFitStatus.args, HISTORY_REQUESTS.historyFitStatus.result),
-  cancelHistoryFit: request(HISTORY_REQUESTS.cancelHistoryFit.args, HISTORY_REQUESTS.cancelHistoryFit.result),
-  saveFittedBundle: request(HISTORY_REQUESTS.saveFittedBundle.args, HISTORY_REQUESTS.saveFittedBundle.result),
-  listBundles: request(HISTORY_REQUESTS.listBundles.args, HISTORY_REQUESTS.listBundles.result),
-  useBundle: request(HISTORY_REQUESTS.useBundle.args, HISTORY_REQUESTS.useBundle.result),
+  ...HISTORY_REQUESTS,
 
   // Files and the desktop shell (Electron only; the page uses the browser's own file handling).
   /**
