@@ -6,15 +6,21 @@
 import type { DelayDistribution, RoutePosterior } from '../delay/predictive';
 
 /**
- * What the tables can use when a distribution offers it: F or f at the whole minutes
- * lo, lo + 1, ..., lo + out.length - 1, written into out, equal to cdf(x) and pdf(x) up to
- * rounding. Evaluating a run of minutes at once lets a distribution step its terms by constant
+ * What the tables can use when a distribution offers it: F or f at lo, lo + step, ...,
+ * lo + (out.length - 1) step (step 1 when not given; the tables also ask for 0.5), written into
+ * out, equal to cdf(x) and pdf(x) up to rounding. Evaluating a run of minutes at once lets a distribution step its terms by constant
  * ratios (e^{-z} of a Gumbel) instead of starting every point afresh, which is where a scoring
  * run spends most of its time. Without them the tables call cdf and pdf point by point.
  */
 export interface GridEvaluation {
-  cdfGrid?(lo: number, out: Float64Array): void;
-  pdfGrid?(lo: number, out: Float64Array): void;
+  cdfGrid?(lo: number, out: Float64Array, step?: number): void;
+  pdfGrid?(lo: number, out: Float64Array, step?: number): void;
+  /**
+   * Where the density jumps, as [x, J, K]: J = f(x+) - f(x-) and K = f'(x+) - f'(x-) (a component
+   * whose support starts at x). The density tables correct the trapezoid for each (see
+   * DrawTable), so such a density need not fall back to exact cell masses.
+   */
+  densityJumps?(): readonly (readonly [number, number, number])[];
 }
 
 /** Mass left out below the grid: F(lo) is at most this. */
@@ -162,7 +168,7 @@ export class DrawTable {
     const farCount = hi > top ? (hi - top) / FAR_STEP + 1 : 0;
     const weights = role === 'density' ? coreIndex + nodes : 0;
     const farNodes = farCount > 0 ? nodes - near : 0;
-    const store = new Float64Array(n + farCount + weights + 3 * farNodes);
+    const store = takeFloats(n + farCount + weights + 3 * farNodes);
     const cdf = store.subarray(0, n);
     const far = store.subarray(n, n + farCount);
     this.farNodes = store.subarray(n + farCount + weights);
@@ -183,7 +189,7 @@ export class DrawTable {
       this.lowMass = checked(dist.cdf(lo), lo, 'CDF');
       const weight = store.subarray(n + farCount, n + farCount + coreIndex + 1);
       const tailWeight = store.subarray(n + farCount + coreIndex + 1);
-      const tailIndex = new Int32Array(nodes - 1);
+      const tailIndex = takeInts(nodes - 1);
       for (let k = 1; k < nodes; k++) tailIndex[k - 1] = tail[k]! - lo;
       const grid = (dist as DelayDistribution & GridEvaluation).pdfGrid;
       if (grid) {
@@ -202,6 +208,27 @@ export class DrawTable {
         weight[coreIndex - 2] = weight[coreIndex - 2]! + fc / 48;
         endCorrection = fc / 48;
       }
+      // A density that jumps by J at s (and its slope by K), between minutes k < s <= k + 1:
+      // by the Euler-Maclaurin formula for a sum that starts a fraction 1 - r past s
+      // (r = s - k; Bernoulli polynomials B1(1 - r) = 1/2 - r, B2(1 - r) = r^2 - r + 1/6), the
+      // trapezoid's sum exceeds the integral by -B1 J g(s) - (B2 / 2) (J g'(s) + K g(s)). With g
+      // linear between k and k + 1 that moves J ((1 - r)^2 / 2 - 1/12) + K B2 (1 - r) / 2 onto
+      // the weight at k and J (1/12 - r^2 / 2) + K B2 r / 2 onto the one at k + 1. A weight
+      // that this would make negative is left alone, and the mass check below then decides.
+      const jumps = (dist as DelayDistribution & GridEvaluation).densityJumps?.() ?? NO_JUMPS;
+      for (const [at, jump, slopeJump] of jumps) {
+        const k = Math.ceil(at) - 1;
+        const r = at - k;
+        const i = k - lo;
+        if (i < 0 || i + 1 >= coreIndex - 2 || !(jump > 0)) continue;
+        const b2 = r * r - r + 1 / 6;
+        const atK = weight[i]! + jump * ((1 - r) * (1 - r) / 2 - 1 / 12) + (slopeJump * b2 * (1 - r)) / 2;
+        const atNext = weight[i + 1]! + jump * (1 / 12 - (r * r) / 2) + (slopeJump * b2 * r) / 2;
+        if (atK >= 0 && atNext >= 0) {
+          weight[i] = atK;
+          weight[i + 1] = atNext;
+        }
+      }
       // The trapezoid is exact only for a smooth density. A density with a jump (a component
       // that starts at some minute) or a spike narrower than a minute integrates to the wrong
       // mass; then the core's weights become exact cell masses, F(x + 1/2) - F(x - 1/2), a
@@ -212,15 +239,21 @@ export class DrawTable {
       if (Math.abs(coreMass - exactCoreMass) > CORE_MASS_TOLERANCE) {
         endCorrection = 0;
         weight.fill(0);
+        // F at every half minute of the core: half[j] = F(lo + j / 2).
+        if (scratchHalf.length < 2 * coreIndex) scratchHalf = new Float64Array(4 * coreIndex);
+        const half = scratchHalf.subarray(0, 2 * coreIndex);
+        const halfGrid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
+        if (halfGrid) halfGrid.call(dist, lo, half, 0.5);
+        else for (let j = 0; j < half.length; j++) half[j] = dist.cdf(lo + j / 2);
         let previous = this.lowMass;
         cdf[0] = previous;
         for (let i = 0; i < coreIndex; i++) {
           const x = lo + i;
-          const upper = Math.max(previous, checked(dist.cdf(x + 0.5), x + 0.5, 'CDF'));
+          const upper = Math.max(previous, checked(half[2 * i + 1]!, x + 0.5, 'CDF'));
           const mass = upper - previous;
           if (i === 0) weight[0]! += mass;
           else {
-            const mid = Math.min(upper, Math.max(previous, checked(dist.cdf(x), x, 'CDF')));
+            const mid = Math.min(upper, Math.max(previous, checked(half[2 * i]!, x, 'CDF')));
             cdf[i] = mid;
             // The cell's centre of mass from Simpson's rule on F over the cell, and its mass
             // split between the two nearest minutes so that a g linear across them is exact
@@ -288,11 +321,14 @@ export class DrawTable {
           for (let x = x0; x < x1; x++, s *= ratio) cdf[x - lo] = Math.min(f1, Math.max(f0, 1 - s));
         }
       } else {
-        // Far points x0 <= top + j * FAR_STEP < x1.
-        for (let j = Math.ceil((x0 - top) / FAR_STEP); top + j * FAR_STEP < x1; j++) {
-          const x = top + j * FAR_STEP;
-          const value = Number.isNaN(logRate) ? f0 + ((s0 - s1) * (x - x0)) / (x1 - x0) : 1 - s0 * Math.exp(logRate * (x - x0));
-          far[j] = Math.min(f1, Math.max(f0, value));
+        // Far points x0 <= top + j * FAR_STEP < x1, S stepped by a constant factor between them.
+        const j0 = Math.ceil((x0 - top) / FAR_STEP);
+        if (Number.isNaN(logRate)) {
+          for (let j = j0; top + j * FAR_STEP < x1; j++) far[j] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (top + j * FAR_STEP - x0)) / (x1 - x0)));
+        } else {
+          const ratio = Math.exp(logRate * FAR_STEP);
+          let s = s0 * Math.exp(logRate * (top + j0 * FAR_STEP - x0));
+          for (let j = j0; top + j * FAR_STEP < x1; j++, s *= ratio) far[j] = Math.min(f1, Math.max(f0, 1 - s));
         }
       }
     }
@@ -373,10 +409,44 @@ export class DrawTable {
 }
 
 const EMPTY = new Float64Array(0);
+const NO_JUMPS: readonly (readonly [number, number, number])[] = [];
+
+// Tables take their arrays as views of shared chunks. A scoring run builds thousands of tables;
+// each typed array of its own would get its own off-heap store, which V8 allocates, zeroes and
+// tracks one by one, and that cost about as much as filling them. A chunk is freed once no table
+// in it is left; only the newest is held here.
+const CHUNK_LENGTH = 1 << 16;
+let floatChunk = new Float64Array(0);
+let floatUsed = 0;
+let intChunk = new Int32Array(0);
+let intUsed = 0;
+
+function takeFloats(length: number): Float64Array {
+  if (length > CHUNK_LENGTH >> 2) return new Float64Array(length);
+  if (floatUsed + length > floatChunk.length) {
+    floatChunk = new Float64Array(CHUNK_LENGTH);
+    floatUsed = 0;
+  }
+  const view = floatChunk.subarray(floatUsed, floatUsed + length);
+  floatUsed += length;
+  return view;
+}
+
+function takeInts(length: number): Int32Array {
+  if (length > CHUNK_LENGTH >> 4) return new Int32Array(length);
+  if (intUsed + length > intChunk.length) {
+    intChunk = new Int32Array(CHUNK_LENGTH >> 2);
+    intUsed = 0;
+  }
+  const view = intChunk.subarray(intUsed, intUsed + length);
+  intUsed += length;
+  return view;
+}
 const EMPTY_INDEX = new Int32Array(0);
 // Per-node working values, reused from table to table (tables are built one at a time).
 let scratchSurvival = new Float64Array(128);
 let scratchNodeF = new Float64Array(128);
+let scratchHalf = new Float64Array(1024);
 
 function checked(value: number, x: number, what: string): number {
   if (!(value >= 0 && value <= 1)) throw new RangeError(`delay distribution gives an invalid ${what} (${value}) at ${x} minutes`);

@@ -70,6 +70,57 @@ function lomaxSurvival(c: Component, x: number): number {
   return Math.exp(-c.shape * Math.log1p(v));
 }
 
+/** How far a Lomax grid's cubic interpolation may stray from the exact value, in F or f. */
+const LOMAX_GRID_TOLERANCE = 1e-10;
+
+/**
+ * A Lomax component's weighted F (or f) added into out at lo + i step. Both are made of
+ * g(x) = (1 + v)^-p, v = (x - start) / lambda, with p = alpha for S and alpha + 1 for f: smooth
+ * past the start, so g is evaluated exactly every K points and by cubic Hermite interpolation
+ * (from g and g' = -p g / (lambda (1 + v))) between them. K is the largest power of two up to 16
+ * whose error bound h^4 max|g^(4)| / 384 (h = K step; the maximum is at the first point) keeps
+ * the weighted error under LOMAX_GRID_TOLERANCE; it is 1 for a narrow or heavy component.
+ */
+function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean, step: number): void {
+  const n = out.length;
+  const lambda = c.scale;
+  const p = density ? c.shape + 1 : c.shape;
+  // f = (w alpha / lambda) g; F = w - w g. Before the start both are 0 (f is w alpha / lambda at it).
+  const factor = density ? (c.weight * c.shape) / lambda : -c.weight;
+  const base = density ? 0 : c.weight;
+  let first = Math.max(0, Math.ceil((c.location - lo) / step));
+  if (first >= n) return;
+  const vAt = (i: number) => (lo + i * step - c.location) / lambda;
+  const g = (i: number) => Math.exp(-p * Math.log1p(vAt(i)));
+  const fourth = (p * (p + 1) * (p + 2) * (p + 3)) / lambda ** 4 / (1 + vAt(first)) ** (p + 4);
+  let span = 1;
+  while (span < 16 && (2 * span * step) ** 4 * fourth * Math.abs(factor) <= 384 * LOMAX_GRID_TOLERANCE) span *= 2;
+  if (span === 1) {
+    for (let i = first; i < n; i++) out[i]! += base + factor * g(i);
+    return;
+  }
+  let g0 = g(first);
+  let d0 = (-p * g0) / (lambda * (1 + vAt(first))); // dg/dx
+  out[first]! += base + factor * g0;
+  while (first < n - 1) {
+    const last = Math.min(n - 1, first + span);
+    const g1 = g(last);
+    const d1 = (-p * g1) / (lambda * (1 + vAt(last)));
+    const width = (last - first) * step;
+    for (let i = first + 1; i < last; i++) {
+      const t = (i - first) / (last - first);
+      const t2 = t * t;
+      const t3 = t2 * t;
+      const value = (2 * t3 - 3 * t2 + 1) * g0 + (t3 - 2 * t2 + t) * width * d0 + (3 * t2 - 2 * t3) * g1 + (t3 - t2) * width * d1;
+      out[i]! += base + factor * value;
+    }
+    out[last]! += base + factor * g1;
+    first = last;
+    g0 = g1;
+    d0 = d1;
+  }
+}
+
 function componentSurvival(c: Component, x: number): number {
   if (c.kind === 'gumbel') return gumbelSurvival(x, c.location, c.scale);
   if (c.kind === 't') return studentTSurvival(x, c.location, c.scale, c.shape);
@@ -160,40 +211,58 @@ export class TailMixtureDistribution implements DelayDistribution {
   }
 
   /**
-   * F at the whole minutes lo, lo + 1, ..., into out (the risk tables' GridEvaluation), equal to
-   * cdf(x) up to rounding: a Gumbel's e^{-z} is stepped by the constant ratio e^{-1/beta} per
-   * minute and recomputed every RESYNC_MINUTES, so one exp per point and component remains.
+   * F at lo, lo + step, lo + 2 step, ... into out (the risk tables' GridEvaluation; step 1
+   * unless given), equal to cdf(x) up to rounding: a Gumbel's e^{-z} is stepped by the constant
+   * ratio e^{-step/beta} and recomputed every RESYNC_MINUTES points, so one exp per point and
+   * component remains.
    */
-  cdfGrid(lo: number, out: Float64Array): void {
-    this.grid(lo, out, false);
+  cdfGrid(lo: number, out: Float64Array, step = 1): void {
+    this.grid(lo, out, false, step);
   }
 
-  /** f at the whole minutes lo, lo + 1, ..., into out, equal to pdf(x) up to rounding. */
-  pdfGrid(lo: number, out: Float64Array): void {
-    this.grid(lo, out, true);
+  /** f at lo, lo + step, ... into out, equal to pdf(x) up to rounding. */
+  pdfGrid(lo: number, out: Float64Array, step = 1): void {
+    this.grid(lo, out, true, step);
   }
 
-  private grid(lo: number, out: Float64Array, density: boolean): void {
+  private grid(lo: number, out: Float64Array, density: boolean, step: number): void {
     out.fill(0);
     const n = out.length;
     for (const c of this.parts) {
-      if (c.kind !== 'gumbel') {
-        for (let i = 0; i < n; i++) out[i]! += c.weight * (density ? componentPdf(c, lo + i) : componentCdf(c, lo + i));
+      if (c.kind === 'lomax') {
+        lomaxGrid(c, lo, out, density, step);
         continue;
       }
-      const ratio = Math.exp(-1 / c.scale);
+      if (c.kind !== 'gumbel') {
+        for (let i = 0; i < n; i++) out[i]! += c.weight * (density ? componentPdf(c, lo + i * step) : componentCdf(c, lo + i * step));
+        continue;
+      }
+      const ratio = Math.exp(-step / c.scale);
       const scale = c.weight / c.scale;
       let t = 0;
       for (let i = 0; i < n; i++) {
         // Recompute e^{-z} directly now and then: no drift, and no Infinity carried forward
         // from far below the location, where e^{-z} overflows.
-        if (i % RESYNC_MINUTES === 0 || !Number.isFinite(t)) t = Math.exp(-(lo + i - c.location) / c.scale);
+        if (i % RESYNC_MINUTES === 0 || !Number.isFinite(t)) t = Math.exp(-(lo + i * step - c.location) / c.scale);
         else t *= ratio;
         const f = Math.exp(-t);
         // f underflows to 0 long before t overflows; multiplying t by f first keeps 0 * Infinity out.
         out[i]! += density ? (f === 0 ? 0 : scale * (t * f)) : c.weight * f;
       }
     }
+  }
+
+  /**
+   * Each Lomax component starts at its location, where the density jumps by J = w alpha / lambda
+   * and its slope by -(alpha + 1) J / lambda.
+   */
+  densityJumps(): readonly (readonly [number, number, number])[] {
+    return this.parts
+      .filter((c) => c.kind === 'lomax')
+      .map((c) => {
+        const jump = (c.weight * c.shape) / c.scale;
+        return [c.location, jump, (-(c.shape + 1) * jump) / c.scale] as const;
+      });
   }
 
   sample(rng: Rng): number {

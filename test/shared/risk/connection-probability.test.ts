@@ -11,6 +11,7 @@ import {
   sortedQuantile,
 } from '../../../shared/risk/connection-probability';
 import { DrawTable, RouteTables } from '../../../shared/risk/delay-table';
+import { TailMixtureDistribution } from '../../../shared/delay/bundle/mixture-distribution';
 import { gumbelDelay, gumbelRoute } from '../../fixtures/risk/synthetic-source';
 import { createRng } from '../../../shared/inference/rng';
 
@@ -52,16 +53,20 @@ describe('drawMakeProbability', () => {
 });
 
 describe('distributions that evaluate runs of minutes at once', () => {
-  // A Gumbel whose cdfGrid and pdfGrid step e^{-z} by the ratio e^{-1/beta} per minute.
+  // A Gumbel whose cdfGrid and pdfGrid step e^{-z} by the ratio e^{-step/beta}.
   function steppedGumbel(mu: number, beta: number, calls: { n: number }) {
     const g = gumbelDelay(mu, beta);
-    const run = (lo: number, out: Float64Array, density: boolean) => {
+    const run = (lo: number, out: Float64Array, density: boolean, step = 1) => {
       calls.n++;
-      const q = Math.exp(-1 / beta);
+      const q = Math.exp(-step / beta);
       let t = Math.exp(-(lo - mu) / beta);
       for (let i = 0; i < out.length; i++, t *= q) out[i] = density ? (t * Math.exp(-t)) / beta : Math.exp(-t);
     };
-    return { ...g, cdfGrid: (lo: number, out: Float64Array) => run(lo, out, false), pdfGrid: (lo: number, out: Float64Array) => run(lo, out, true) };
+    return {
+      ...g,
+      cdfGrid: (lo: number, out: Float64Array, step?: number) => run(lo, out, false, step),
+      pdfGrid: (lo: number, out: Float64Array, step?: number) => run(lo, out, true, step),
+    };
   }
 
   it('give the same tables and P(make) as point-by-point calls, and the logistic closed form (@stdlib/stats-base-dists-logistic)', () => {
@@ -360,6 +365,33 @@ describe('departure densities the trapezoid cannot integrate', () => {
     const d = new DrawTable(mixture([gumbelPart(0.94, 2, 11), lomax]), 'density');
     const a = new DrawTable(gumbelDelay(5, 12), 'cdf');
     for (const m of [-20, 0, 15, 45, 120]) closeTo(drawMakeProbability(a, d, m), cellReference(a, d, m), 1e-4, `m=${m}`);
+  });
+
+  it('corrects the trapezoid for a jump the distribution declares (densityJumps: jump and slope) to within 1e-6, without exact cell masses', () => {
+    const start = 5.6;
+    const lomax = { w: 0.06, cdf: (x: number) => (x <= start ? 0 : 1 - Math.pow(1 + (x - start) / 30, -1.5)), pdf: (x: number) => (x <= start ? 0 : (1.5 / 30) * Math.pow(1 + (x - start) / 30, -2.5)) };
+    const plain = mixture([gumbelPart(0.94, 2, 11), lomax]);
+    const jump = (0.06 * 1.5) / 30;
+    const declared = { ...plain, densityJumps: () => [[start, jump, (-2.5 * jump) / 30] as const] };
+    const d = new DrawTable(declared, 'density');
+    const a = new DrawTable(gumbelDelay(5, 12), 'cdf');
+    // Away from the jump and the core's end the weights are still the density itself (trapezoid).
+    for (const x of [-10, 0, 20, 40]) closeTo(d.weight[x - d.lo]!, declared.pdf(x), 1e-15, `weight at ${x}`);
+    for (const m of [-20, 0, 15, 45, 120]) closeTo(drawMakeProbability(a, d, m), cellReference(a, d, m), 1e-6, `m=${m}`);
+  });
+
+  it('builds the same exact-cell table from a distribution that evaluates half-minute grids as from point calls', () => {
+    // A typical scale of 0.03 minutes (a population draw): the core falls back to exact cells.
+    const eta = [2.4, Math.log(0.03), 30, Math.log(25), -1.5, Math.log(40), Math.log(1.2), -1];
+    const gridded = new TailMixtureDistribution('gumbel-gumbel-lomax', eta, 4, 6.1);
+    const pointwise = { cdf: (x: number) => gridded.cdf(x), survival: (x: number) => gridded.survival(x), pdf: (x: number) => gridded.pdf(x), sample: () => 0 };
+    const a = new DrawTable(gridded, 'density');
+    const b = new DrawTable(pointwise, 'density');
+    expect(a.weight.length).toBe(b.weight.length);
+    a.weight.forEach((w, i) => closeTo(w, b.weight[i]!, 1e-10, `weight at ${a.lo + i}`));
+    a.cdf.forEach((v, i) => closeTo(v, b.cdf[i]!, 1e-10, `F at ${a.lo + i}`));
+    // The typical part (weight 0.82) sits at 8.5 minutes: the exact cells split it between 8 and 9.
+    expect(a.weight[8 - a.lo]! + a.weight[9 - a.lo]!).toBeGreaterThan(0.8);
   });
 
   it('integrates a spike narrower than a minute to within 1.5e-3 (counted at its minute, 5.8e-3 off)', () => {
