@@ -3,14 +3,16 @@
 // cdf, pdf and survival are the weighted sums of the components'; survival sums the
 // components' own survival functions, so the far right tail keeps its precision.
 import type { Rng } from '../inference/rng';
-import type { DelayDistribution } from './predictive';
+import type { DelayDistribution, GridEvaluation } from './predictive';
 
 /**
  * A mixture with the given components and weights (non-negative, summing to 1 within 1e-9).
  * Bad weights or no components throw a RangeError; NaN input gives NaN from every function.
+ * When every component evaluates grids (GridEvaluation), so does the mixture, and it declares
+ * its components' density jumps, weighted.
  * @example mixtureDistribution([gumbelDistribution(0, 1), gumbelDistribution(30, 40)], [0.8, 0.2]).survival(60) // ~0.0487
  */
-export function mixtureDistribution(components: readonly DelayDistribution[], weights: readonly number[]): DelayDistribution {
+export function mixtureDistribution(components: readonly (DelayDistribution & GridEvaluation)[], weights: readonly number[]): DelayDistribution & GridEvaluation {
   if (components.length === 0) throw new RangeError('a mixture needs at least one component');
   if (weights.length !== components.length) throw new RangeError(`${components.length} components but ${weights.length} weights`);
   let total = 0;
@@ -26,7 +28,28 @@ export function mixtureDistribution(components: readonly DelayDistribution[], we
     for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * f(comps[k]!);
     return s;
   };
+  const gridded = comps.every((d) => d.cdfGrid && d.pdfGrid);
+  let scratch = new Float64Array(0);
+  const grid = (lo: number, out: Float64Array, step: number | undefined, density: boolean) => {
+    out.fill(0);
+    if (scratch.length < out.length) scratch = new Float64Array(out.length);
+    const part = scratch.subarray(0, out.length);
+    for (let k = 0; k < comps.length; k++) {
+      const w = ws[k]!;
+      if (!(w > 0)) continue;
+      const d = comps[k]!;
+      if (density) d.pdfGrid!(lo, part, step);
+      else d.cdfGrid!(lo, part, step);
+      for (let i = 0; i < out.length; i++) out[i]! += w * part[i]!;
+    }
+  };
+  const jumps = comps.flatMap((d, k) => (d.densityJumps?.() ?? []).map(([x, jump, slope]) => [x, ws[k]! * jump, ws[k]! * slope] as const));
   return {
+    ...(gridded && {
+      cdfGrid: (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, false),
+      pdfGrid: (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, true),
+    }),
+    ...(jumps.length > 0 && { densityJumps: () => jumps }),
     cdf: (x) => (Number.isNaN(x) ? NaN : sum((d) => d.cdf(x))),
     survival: (x) => (Number.isNaN(x) ? NaN : sum((d) => d.survival(x))),
     pdf: (x) => (Number.isNaN(x) ? NaN : sum((d) => d.pdf(x))),

@@ -18,6 +18,26 @@ export interface DelayDistribution {
   sample(rng: Rng): number;
 }
 
+/**
+ * What the risk tables can use when a distribution offers it: F or f at lo, lo + step, ...,
+ * lo + (out.length - 1) step (step 1 when not given; the tables also ask for 0.5), written into
+ * out, equal to cdf(x) and pdf(x) within 1e-10. Evaluating a run of points at once lets a
+ * distribution step its terms by constant ratios (e^{-z} of a Gumbel) instead of starting every
+ * point afresh, which is where a scoring run spends most of its time. Without them the tables
+ * call cdf and pdf point by point.
+ */
+export interface GridEvaluation {
+  cdfGrid?(lo: number, out: Float64Array, step?: number): void;
+  pdfGrid?(lo: number, out: Float64Array, step?: number): void;
+  /**
+   * Where the density jumps, as [x, J, K]: J = f(x+) - f(x-) and K = f'(x+) - f'(x-) (a
+   * component whose support starts at x). The risk engine's density tables correct the
+   * trapezoid for each (shared/risk/delay-table.ts), so such a density need not fall back to
+   * exact cell masses.
+   */
+  densityJumps?(): readonly (readonly [number, number, number])[];
+}
+
 export type DelayKind = 'arrival' | 'departure';
 
 /**

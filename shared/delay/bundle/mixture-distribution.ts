@@ -5,7 +5,7 @@
 // the whole distribution (departure delays derived from arrival delays add the en-route
 // recovery offset).
 import type { Rng } from '../../inference/rng';
-import { gumbelCdf, gumbelLogPdf, gumbelPdf, gumbelSample, gumbelSurvival } from '../gumbel';
+import { addGumbelGrid, gumbelLogPdf, gumbelPdf, gumbelSample } from '../gumbel';
 import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
 import type { DelayDistribution } from '../predictive';
@@ -24,9 +24,6 @@ interface Component {
   /** log of the t density's constant, computed once (pdf is the hot call in scoring). */
   readonly logConstant: number;
 }
-
-/** How often cdfGrid and pdfGrid recompute a Gumbel's e^{-z} instead of stepping it. */
-const RESYNC_MINUTES = 32;
 
 function sigmoid(x: number): number {
   return 1 / (1 + Math.exp(-x));
@@ -70,16 +67,19 @@ function lomaxSurvival(c: Component, x: number): number {
   return Math.exp(-c.shape * Math.log1p(v));
 }
 
-/** How far a Lomax grid's cubic interpolation may stray from the exact value, in F or f. */
-const LOMAX_GRID_TOLERANCE = 1e-10;
+/** Points between exact evaluations in lomaxGrid's recurrence. */
+const LOMAX_RESYNC_POINTS = 32;
+/** lomaxGrid steps g by its series only while p * step / lambda stays below this. */
+const LOMAX_SERIES_LIMIT = 0.02;
 
 /**
  * A Lomax component's weighted F (or f) added into out at lo + i step. Both are made of
- * g(x) = (1 + v)^-p, v = (x - start) / lambda, with p = alpha for S and alpha + 1 for f: smooth
- * past the start, so g is evaluated exactly every K points and by cubic Hermite interpolation
- * (from g and g' = -p g / (lambda (1 + v))) between them. K is the largest power of two up to 16
- * whose error bound h^4 max|g^(4)| / 384 (h = K step; the maximum is at the first point) keeps
- * the weighted error under LOMAX_GRID_TOLERANCE; it is 1 for a narrow or heavy component.
+ * g(x) = (1 + v)^-p, v = (x - start) / lambda, with p = alpha for S and alpha + 1 for f. From one
+ * point to the next g is multiplied by (1 + e)^-p, e = (step / lambda) / (1 + v) <= step / lambda;
+ * while p e <= LOMAX_SERIES_LIMIT that factor's binomial series to e^6 is exact to about
+ * (p e)^7 / 5040 < 3e-16, and g is recomputed exactly every LOMAX_RESYNC_POINTS points, so
+ * no exp or log is needed in between. A narrow component (large p step / lambda) is
+ * evaluated point by point.
  */
 function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean, step: number): void {
   const n = out.length;
@@ -88,47 +88,41 @@ function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean
   // f = (w alpha / lambda) g; F = w - w g. Before the start both are 0 (f is w alpha / lambda at it).
   const factor = density ? (c.weight * c.shape) / lambda : -c.weight;
   const base = density ? 0 : c.weight;
-  let first = Math.max(0, Math.ceil((c.location - lo) / step));
-  if (first >= n) return;
-  const vAt = (i: number) => (lo + i * step - c.location) / lambda;
-  const g = (i: number) => Math.exp(-p * Math.log1p(vAt(i)));
-  const fourth = (p * (p + 1) * (p + 2) * (p + 3)) / lambda ** 4 / (1 + vAt(first)) ** (p + 4);
-  let span = 1;
-  while (span < 16 && (2 * span * step) ** 4 * fourth * Math.abs(factor) <= 384 * LOMAX_GRID_TOLERANCE) span *= 2;
-  if (span === 1) {
-    for (let i = first; i < n; i++) out[i]! += base + factor * g(i);
-    return;
-  }
-  let g0 = g(first);
-  let d0 = (-p * g0) / (lambda * (1 + vAt(first))); // dg/dx
-  out[first]! += base + factor * g0;
-  while (first < n - 1) {
-    const last = Math.min(n - 1, first + span);
-    const g1 = g(last);
-    const d1 = (-p * g1) / (lambda * (1 + vAt(last)));
-    const width = (last - first) * step;
-    for (let i = first + 1; i < last; i++) {
-      const t = (i - first) / (last - first);
-      const t2 = t * t;
-      const t3 = t2 * t;
-      const value = (2 * t3 - 3 * t2 + 1) * g0 + (t3 - 2 * t2 + t) * width * d0 + (3 * t2 - 2 * t3) * g1 + (t3 - t2) * width * d1;
-      out[i]! += base + factor * value;
+  const first = Math.max(0, Math.ceil((c.location - lo) / step));
+  const delta = step / lambda;
+  const series = p * delta <= LOMAX_SERIES_LIMIT;
+  // Binomial coefficients of (1 + e)^-p: 1 - p e + p (p + 1) / 2 e^2 - ...
+  const c1 = -p;
+  const c2 = (-c1 * (p + 1)) / 2;
+  const c3 = (-c2 * (p + 2)) / 3;
+  const c4 = (-c3 * (p + 3)) / 4;
+  const c5 = (-c4 * (p + 4)) / 5;
+  const c6 = (-c5 * (p + 5)) / 6;
+  let g = 0;
+  for (let i = first; i < n; i++) {
+    const onePlusV = 1 + (lo + i * step - c.location) / lambda;
+    if (!series || (i - first) % LOMAX_RESYNC_POINTS === 0) g = Math.exp(-p * Math.log(onePlusV));
+    out[i]! += base + factor * g;
+    if (series) {
+      const e = delta / onePlusV;
+      g *= 1 + e * (c1 + e * (c2 + e * (c3 + e * (c4 + e * (c5 + e * c6)))));
     }
-    out[last]! += base + factor * g1;
-    first = last;
-    g0 = g1;
-    d0 = d1;
   }
 }
 
 function componentSurvival(c: Component, x: number): number {
-  if (c.kind === 'gumbel') return gumbelSurvival(x, c.location, c.scale);
+  if (c.kind === 'gumbel') {
+    // gumbelSurvival without its parameter checks (a bundle's are validated), and with
+    // 1 - e^{-t} by its series where t is small (the far right tail, where the tables ask most).
+    const t = Math.exp(-(x - c.location) / c.scale);
+    return t < 1e-5 ? t * (1 - t * (0.5 - t / 6)) : -Math.expm1(-t);
+  }
   if (c.kind === 't') return studentTSurvival(x, c.location, c.scale, c.shape);
   return lomaxSurvival(c, x);
 }
 
 function componentCdf(c: Component, x: number): number {
-  if (c.kind === 'gumbel') return gumbelCdf(x, c.location, c.scale);
+  if (c.kind === 'gumbel') return Math.exp(-Math.exp(-(x - c.location) / c.scale));
   if (c.kind === 't') return studentTCdf(x, c.location, c.scale, c.shape);
   return 1 - lomaxSurvival(c, x);
 }
@@ -213,8 +207,7 @@ export class TailMixtureDistribution implements DelayDistribution {
   /**
    * F at lo, lo + step, lo + 2 step, ... into out (the risk tables' GridEvaluation; step 1
    * unless given), equal to cdf(x) up to rounding: a Gumbel's e^{-z} is stepped by the constant
-   * ratio e^{-step/beta} and recomputed every RESYNC_MINUTES points, so one exp per point and
-   * component remains.
+   * ratio e^{-step/beta} (addGumbelGrid), so one exp per point and component remains.
    */
   cdfGrid(lo: number, out: Float64Array, step = 1): void {
     this.grid(lo, out, false, step);
@@ -237,18 +230,7 @@ export class TailMixtureDistribution implements DelayDistribution {
         for (let i = 0; i < n; i++) out[i]! += c.weight * (density ? componentPdf(c, lo + i * step) : componentCdf(c, lo + i * step));
         continue;
       }
-      const ratio = Math.exp(-step / c.scale);
-      const scale = c.weight / c.scale;
-      let t = 0;
-      for (let i = 0; i < n; i++) {
-        // Recompute e^{-z} directly now and then: no drift, and no Infinity carried forward
-        // from far below the location, where e^{-z} overflows.
-        if (i % RESYNC_MINUTES === 0 || !Number.isFinite(t)) t = Math.exp(-(lo + i * step - c.location) / c.scale);
-        else t *= ratio;
-        const f = Math.exp(-t);
-        // f underflows to 0 long before t overflows; multiplying t by f first keeps 0 * Infinity out.
-        out[i]! += density ? (f === 0 ? 0 : scale * (t * f)) : c.weight * f;
-      }
+      addGumbelGrid(out, lo, step, c.location, c.scale, c.weight, density);
     }
   }
 

@@ -99,3 +99,21 @@ describe('Gumbel edge-case contract', () => {
     expect(d.sample(createRng(4))).toBe(gumbelSample(createRng(4), 3, 9));
   });
 });
+
+describe('Gumbel on a grid (the risk tables use it) against @stdlib/stats-base-dists-gumbel', () => {
+  it.each([
+    { mu: 5, beta: 12, lo: -200, step: 1 },
+    { mu: -3, beta: 0.7, lo: -20.25, step: 0.5 },
+  ])('cdfGrid and pdfGrid match at every point (mu $mu, beta $beta, step $step)', ({ mu, beta, lo, step }) => {
+    const dist = gumbelDistribution(mu, beta);
+    const F = new Float64Array(900);
+    const f = new Float64Array(900);
+    dist.cdfGrid!(lo, F, step);
+    dist.pdfGrid!(lo, f, step);
+    for (let i = 0; i < F.length; i++) {
+      const x = lo + i * step;
+      expect(Math.abs(F[i]! - stdlibGumbel.cdf(x, mu, beta))).toBeLessThanOrEqual(1e-13);
+      expect(Math.abs(f[i]! - stdlibGumbel.pdf(x, mu, beta))).toBeLessThanOrEqual(1e-13 * Math.max(1, stdlibGumbel.pdf(x, mu, beta)));
+    }
+  });
+});

@@ -46,3 +46,24 @@ describe('mixtureDistribution', () => {
     expect(mix.pdf(NaN)).toBeNaN();
   });
 });
+
+describe('mixtureDistribution on a grid', () => {
+  it('evaluates grids when every component does, equal to its point values (@stdlib/stats-base-dists-gumbel)', () => {
+    const mix = mixtureDistribution([gumbelDistribution(2, 11), gumbelDistribution(30, 45)], [0.9, 0.1]);
+    const F = new Float64Array(700);
+    const f = new Float64Array(700);
+    mix.cdfGrid!(-150, F, 0.5);
+    mix.pdfGrid!(-150, f, 0.5);
+    for (let i = 0; i < F.length; i++) {
+      const x = -150 + i / 2;
+      expectClose(F[i]!, 0.9 * stdlibGumbel.cdf(x, 2, 11) + 0.1 * stdlibGumbel.cdf(x, 30, 45), 1e-13, `F(${x})`, 1e-15);
+      expectClose(f[i]!, 0.9 * stdlibGumbel.pdf(x, 2, 11) + 0.1 * stdlibGumbel.pdf(x, 30, 45), 1e-13, `f(${x})`, 1e-15);
+    }
+  });
+
+  it('offers no grid when a component has none', () => {
+    const mix = mixtureDistribution([gumbelDistribution(2, 11), normalDistribution(30, 45)], [0.9, 0.1]);
+    expect(mix.cdfGrid).toBeUndefined();
+    expect(mix.pdfGrid).toBeUndefined();
+  });
+});
