@@ -46,6 +46,80 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
   return Math.min(1, sum);
 }
 
+/**
+ * drawMakeProbability at m0, m0 + 1, m0 + 2 and m0 + 3 in one pass, into out[at..at + 3]: each
+ * D weight is read once and meets a sliding window of four F_A values. Every sum adds the same
+ * terms in the same order as drawMakeProbability (terms of F_A = 0 add +0), so the values are
+ * bit for bit the same, which the exact minimum-layover check relies on.
+ */
+export function drawMakeProbability4(arrival: DrawTable, departure: DrawTable, m0: number, out: Float64Array, at: number): void {
+  const lo = departure.lo;
+  const shift = m0 + lo - arrival.lo;
+  const fa = arrival.cdf;
+  const nA = fa.length;
+  const w = departure.weight;
+  const low = departure.lowMass;
+  let s0 = low * arrival.cdfAt(m0 + lo);
+  let s1 = low * arrival.cdfAt(m0 + 1 + lo);
+  let s2 = low * arrival.cdfAt(m0 + 2 + lo);
+  let s3 = low * arrival.cdfAt(m0 + 3 + lo);
+  const coreLength = departure.coreLength;
+  // The range where all four F_A values lie in A's whole-minute table; before it only the last
+  // three points can meet F_A > 0, after it cdfAt.
+  const start = Math.min(coreLength, Math.max(0, -shift));
+  const end = Math.max(start, Math.min(coreLength, nA - shift - 3));
+  for (let i = Math.max(0, start - 3); i < start; i++) {
+    const j = i + shift;
+    const wi = w[i]!;
+    if (j + 1 >= 0) s1 += wi * arrival.cdfAt(m0 + 1 + lo + i);
+    if (j + 2 >= 0) s2 += wi * arrival.cdfAt(m0 + 2 + lo + i);
+    if (j + 3 >= 0) s3 += wi * arrival.cdfAt(m0 + 3 + lo + i);
+  }
+  if (end > start) {
+    let j = start + shift;
+    let a0 = fa[j]!;
+    let a1 = fa[j + 1]!;
+    let a2 = fa[j + 2]!;
+    for (let i = start; i < end; i++, j++) {
+      const a3 = fa[j + 3]!;
+      const wi = w[i]!;
+      s0 += wi * a0;
+      s1 += wi * a1;
+      s2 += wi * a2;
+      s3 += wi * a3;
+      a0 = a1;
+      a1 = a2;
+      a2 = a3;
+    }
+  }
+  for (let i = end; i < coreLength; i++) {
+    const wi = w[i]!;
+    const x = m0 + lo + i;
+    s0 += wi * arrival.cdfAt(x);
+    s1 += wi * arrival.cdfAt(x + 1);
+    s2 += wi * arrival.cdfAt(x + 2);
+    s3 += wi * arrival.cdfAt(x + 3);
+  }
+  const tail = departure.tailIndex;
+  const tw = departure.tailWeight;
+  for (let k = 0; k < tail.length; k++) {
+    const j = tail[k]! + shift;
+    if (j + 3 < 0) continue;
+    const wk = tw[k]!;
+    const x = m0 + lo + tail[k]!;
+    if (j >= 0) s0 += wk * (j < nA ? fa[j]! : arrival.cdfAt(x));
+    if (j + 1 >= 0) s1 += wk * (j + 1 < nA ? fa[j + 1]! : arrival.cdfAt(x + 1));
+    if (j + 2 >= 0) s2 += wk * (j + 2 < nA ? fa[j + 2]! : arrival.cdfAt(x + 2));
+    s3 += wk * (j + 3 < nA ? fa[j + 3]! : arrival.cdfAt(x + 3));
+  }
+  const high = departure.highMass;
+  const x = m0 + departure.hi;
+  out[at] = Math.min(1, s0 + high * arrival.cdfAt(x));
+  out[at + 1] = Math.min(1, s1 + high * arrival.cdfAt(x + 1));
+  out[at + 2] = Math.min(1, s2 + high * arrival.cdfAt(x + 2));
+  out[at + 3] = Math.min(1, s3 + high * arrival.cdfAt(x + 3));
+}
+
 /** The inbound arrival posterior and the outbound departure posterior of one connection. */
 export class ConnectionPair {
   readonly draws: number;
@@ -78,6 +152,23 @@ export class ConnectionPair {
     return out;
   }
 
+  /**
+   * drawProbabilities at m0..m0 + 3 worked out in one pass (drawMakeProbability4) and memoised:
+   * the same values, for about the price of two.
+   */
+  prefetch(m0: number): void {
+    if (!Number.isInteger(m0)) throw new RangeError(`the margin must be whole minutes, got ${m0}`);
+    if (this.memo.has(m0) && this.memo.has(m0 + 1) && this.memo.has(m0 + 2) && this.memo.has(m0 + 3)) return;
+    const all = new Float64Array(4 * this.draws);
+    for (let t = 0; t < this.draws; t++) drawMakeProbability4(this.arrival.table(t), this.departure.table(t), m0, all, 4 * t);
+    for (let k = 0; k < 4; k++) {
+      if (this.memo.has(m0 + k)) continue;
+      const out = new Float64Array(this.draws);
+      for (let t = 0; t < this.draws; t++) out[t] = all[4 * t + k]!;
+      this.memo.set(m0 + k, out);
+    }
+  }
+
   /** Posterior predictive P(A - D <= m). */
   probability(m: number): number {
     return mean(this.drawProbabilities(m));
@@ -101,13 +192,14 @@ export function pMakeIntervalAtLayover(pair: ConnectionPair, layoverMinutes: num
  * The smallest whole-minute layover L in [0, MAX_LAYOVER_MINUTES] with P(make at L) >= target;
  * null when even the longest does not reach it. target must lie in (0, 1), else RangeError.
  *
- * The same search runs twice: first on the mean over every GUIDE_STRIDE-th draw only (an eighth
- * of the work per evaluation), from a rough guess; then on all draws, from that answer. Each
- * brackets its start by doubling steps, then narrows the bracket on whole minutes by linear
- * interpolation between its ends (checking the minute next to each interpolated one, where the
- * answer usually is) or by halving it. So at the answer P >= target and at one minute less
- * P < target, exactly, for the same function; only the number of evaluations depends on the
- * guesses, never the answer.
+ * The same search runs three times: on the middle draw alone, from a rough guess; on the mean
+ * over every GUIDE_STRIDE-th draw (an eighth of the work per evaluation), from that answer; then
+ * on all draws, from the second answer, with the four margins around it worked out in one pass
+ * (ConnectionPair.prefetch). Each brackets its start by doubling steps, then narrows the bracket
+ * on whole minutes by linear interpolation between its ends (checking the minute next to each
+ * interpolated one, where the answer usually is) or by halving it. So at the answer P >= target
+ * and at one minute less P < target, exactly, for the same function; only the number of
+ * evaluations depends on the guesses, never the answer.
  */
 export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target: number): number | null {
   if (!(target > 0 && target < 1)) throw new RangeError(`target must lie in (0, 1), got ${target}`);
@@ -115,6 +207,14 @@ export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target:
   let guess = roughLayoverGuess(pair, mctMinutes, target);
   let slope = NaN;
   if (pair.draws >= 2 * GUIDE_STRIDE) {
+    // The middle draw alone first: one table pair per evaluation.
+    const arrival = pair.arrival.table(pair.draws >> 1);
+    const departure = pair.departure.table(pair.draws >> 1);
+    const single = searchMinimum((layover) => drawMakeProbability(arrival, departure, layover - mctMinutes), guess, target, 4, NaN);
+    if (single.layover !== null) {
+      guess = single.layover;
+      slope = single.slope;
+    }
     const some: [DrawTable, DrawTable][] = [];
     for (let t = GUIDE_STRIDE >> 1; t < pair.draws; t += GUIDE_STRIDE) some.push([pair.arrival.table(t), pair.departure.table(t)]);
     const subset = (layover: number) => {
@@ -122,10 +222,12 @@ export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target:
       for (const [a, d] of some) sum += drawMakeProbability(a, d, layover - mctMinutes);
       return sum / some.length;
     };
-    const guide = searchMinimum(subset, guess, target, 4, NaN);
+    const guide = searchMinimum(subset, guess, target, 4, slope);
     guess = guide.layover ?? MAX_LAYOVER_MINUTES;
     slope = guide.slope;
   }
+  // The answer and the minute before it are usually within a minute or two of the guide's.
+  pair.prefetch(Math.min(MAX_LAYOVER_MINUTES, Math.max(0, guess)) - 2 - mctMinutes);
   return searchMinimum((layover) => pair.probability(layover - mctMinutes), guess, target, 1, slope).layover;
 }
 
@@ -263,10 +365,16 @@ export function mean(values: ArrayLike<number>): number {
  */
 export function centralInterval(values: ArrayLike<number>, level: number): [number, number] {
   if (!(level > 0 && level < 1)) throw new RangeError(`interval level must lie in (0, 1), got ${level}`);
-  const sorted = Float64Array.from(values).sort();
+  if (intervalScratch.length < values.length) intervalScratch = new Float64Array(values.length);
+  const sorted = intervalScratch.subarray(0, values.length);
+  for (let i = 0; i < values.length; i++) sorted[i] = values[i]!;
+  sorted.sort();
   if (sorted.length === 0 || Number.isNaN(sorted[sorted.length - 1] ?? NaN)) return [NaN, NaN];
   return [sortedQuantile(sorted, (1 - level) / 2), sortedQuantile(sorted, (1 + level) / 2)];
 }
+
+// Sorted in place here: scoring takes an interval of every connection and trip.
+let intervalScratch = new Float64Array(64);
 
 /** Quantile p of ascending values, Hyndman & Fan definition 7 (R's and NumPy's default). */
 export function sortedQuantile(sorted: ArrayLike<number>, p: number): number {

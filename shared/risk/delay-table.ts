@@ -3,25 +3,9 @@
 //
 // Tabulating once per (route, kind, draw) is what makes the quadrature in connection-probability.ts
 // and the trip simulation cheap: both only ever look up F at whole minutes.
-import type { DelayDistribution, RoutePosterior } from '../delay/predictive';
+import type { DelayDistribution, GridEvaluation, RoutePosterior } from '../delay/predictive';
 
-/**
- * What the tables can use when a distribution offers it: F or f at lo, lo + step, ...,
- * lo + (out.length - 1) step (step 1 when not given; the tables also ask for 0.5), written into
- * out, equal to cdf(x) and pdf(x) up to rounding. Evaluating a run of minutes at once lets a distribution step its terms by constant
- * ratios (e^{-z} of a Gumbel) instead of starting every point afresh, which is where a scoring
- * run spends most of its time. Without them the tables call cdf and pdf point by point.
- */
-export interface GridEvaluation {
-  cdfGrid?(lo: number, out: Float64Array, step?: number): void;
-  pdfGrid?(lo: number, out: Float64Array, step?: number): void;
-  /**
-   * Where the density jumps, as [x, J, K]: J = f(x+) - f(x-) and K = f'(x+) - f'(x-) (a component
-   * whose support starts at x). The density tables correct the trapezoid for each (see
-   * DrawTable), so such a density need not fall back to exact cell masses.
-   */
-  densityJumps?(): readonly (readonly [number, number, number])[];
-}
+export type { GridEvaluation } from '../delay/predictive';
 
 /** Mass left out below the grid: F(lo) is at most this. */
 const LOW_TAIL = 1e-10;

@@ -115,8 +115,9 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     }
     return pair;
   };
-  const minLayovers = new Map<string, number | null>();
-  const makeSummaries = new Map<string, { pMake: number; interval: [number, number] }>();
+  // Per pair: P(make) summaries by slack and minimum layovers by MCT, each worked out once.
+  const summariesOf = new Map<ConnectionPair, Map<number, { pMake: number; interval: [number, number] }>>();
+  const minLayoversOf = new Map<ConnectionPair, Map<number, number | null>>();
 
   const unknownCountry = new Set<string>();
   const countryOf = (code: string): string => {
@@ -177,19 +178,21 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       const slack = c.layoverMinutes - mct.mctMinutes;
       const byDraw = pair.drawProbabilities(slack);
       // Travellers on the same flights share a connection: its summary is worked out once.
-      const summaryKey = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}@${slack}`;
-      let summary = makeSummaries.get(summaryKey);
+      let summaries = summariesOf.get(pair);
+      if (!summaries) summariesOf.set(pair, (summaries = new Map()));
+      let summary = summaries.get(slack);
       if (!summary) {
         summary = { pMake: mean(byDraw), interval: centralInterval(byDraw, settings.intervalLevel) };
-        makeSummaries.set(summaryKey, summary);
+        summaries.set(slack, summary);
       }
       for (let t = 0; t < draws; t++) allByDraw[t] = (allByDraw[t] ?? 0) * (byDraw[t] ?? 0);
       const pMake = summary.pMake;
-      const minKey = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}@${mct.mctMinutes}`;
-      let minLayover = minLayovers.get(minKey);
+      let minLayovers = minLayoversOf.get(pair);
+      if (!minLayovers) minLayoversOf.set(pair, (minLayovers = new Map()));
+      let minLayover = minLayovers.get(mct.mctMinutes);
       if (minLayover === undefined) {
         minLayover = minimumLayover(pair, mct.mctMinutes, settings.target);
-        minLayovers.set(minKey, minLayover);
+        minLayovers.set(mct.mctMinutes, minLayover);
       }
       if (c.layoverMinutes < mct.mctMinutes && !flags.includes('below-mct')) flags.push('below-mct');
       if (pMake < settings.target) flags.push('below-target');

@@ -89,46 +89,71 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
   if (!Number.isInteger(simulations) || simulations < 1) throw new RangeError(`simulations must be a whole number >= 1, got ${simulations}`);
   const n = simulations;
   // Each flight's delays in every simulation, drawn in one sweep of its own stream.
+  // The uniforms in stream order first, then inverted table by table (simulation i uses joint
+  // draw i mod draws): each table is read while it is in cache, and the values are the same.
+  const uniforms = new Float64Array(n);
   const sweep = (tables: RouteTables | undefined, stream: Rng): Float64Array => {
     const row = new Float64Array(n);
     if (!tables) return row;
-    for (let i = 0; i < n; i++) row[i] = Math.min(MAX_SIMULATED_DELAY_MINUTES, tables.table(i % draws).inverse(stream.uniform()));
+    for (let i = 0; i < n; i++) uniforms[i] = stream.uniform();
+    for (let t = 0; t < Math.min(draws, n); t++) {
+      const table = tables.table(t);
+      for (let i = t; i < n; i += draws) row[i] = Math.min(MAX_SIMULATED_DELAY_MINUTES, table.inverse(uniforms[i]!));
+    }
     return row;
   };
   const none = new Float64Array(0);
   const arrivals = flights.map((f) => (f.arrival ? sweep(f.arrival, flightStream(seed, f.key, 'arrival')) : none));
   const departures = flights.map((f) => (f.departure ? sweep(f.departure, flightStream(seed, f.key, 'departure')) : none));
+  // A connection's rebooking delay in every simulation depends only on its two flights, its
+  // slack and the rebook gap, and travellers share connections: each is worked out once
+  // (0 where the connection is made).
+  const rebookings = new Map<string, Float64Array>();
+  const rebookingOf = (c: SimConnection, g: number): Float64Array => {
+    const key = `${c.inbound} ${c.outbound} ${c.slackMinutes} ${g}`;
+    let row = rebookings.get(key);
+    if (!row) {
+      row = new Float64Array(n);
+      const a = arrivals[c.inbound]!;
+      const d = departures[c.outbound]!;
+      const slack = c.slackMinutes;
+      for (let i = 0; i < n; i++) {
+        const shortfall = a[i]! - d[i]! - slack;
+        if (shortfall > 0) row[i] = Math.ceil(shortfall / g) * g;
+      }
+      rebookings.set(key, row);
+    }
+    return row;
+  };
   // Then each trip in turn: its delays in one scratch row, summarised before the next trip.
   const delay = new Float64Array(n);
   const missedAll = new Uint8Array(trips.length * n);
   return trips.map((trip, k) => {
     const missed = missedAll.subarray(k * n, (k + 1) * n);
     const g = trip.rebookGapMinutes;
-    delay.fill(0);
-    for (const c of trip.connections) {
-      const a = arrivals[c.inbound]!;
-      const d = departures[c.outbound]!;
-      const slack = c.slackMinutes;
-      for (let i = 0; i < n; i++) {
-        const shortfall = a[i]! - d[i]! - slack;
-        if (shortfall > 0) {
-          missed[i] = 1;
-          delay[i] = delay[i]! + Math.ceil(shortfall / g) * g;
-        }
-      }
+    // The rebooking delays of its connections, summed: at least one gap (>= 1 minute) exactly
+    // where some connection was missed.
+    const connections = trip.connections;
+    if (connections.length === 0) delay.fill(0);
+    else delay.set(rebookingOf(connections[0]!, g));
+    for (let c = 1; c < connections.length; c++) {
+      const row = rebookingOf(connections[c]!, g);
+      for (let i = 0; i < n; i++) delay[i] = delay[i]! + row[i]!;
     }
     const last = arrivals[trip.lastFlight]!;
     let sum = 0;
     let within = 0;
-    let byDeadline = 0;
     const slack = trip.deadlineSlackMinutes;
     for (let i = 0; i < n; i++) {
-      const x = delay[i]! + last[i]!;
+      const rebooked = delay[i]!;
+      missed[i] = rebooked > 0 ? 1 : 0;
+      const x = rebooked + last[i]!;
       delay[i] = x;
       sum += x;
-      if (x < ON_TIME_TOLERANCE_MINUTES) within++;
-      if (slack !== null && x <= slack) byDeadline++;
+      within += x < ON_TIME_TOLERANCE_MINUTES ? 1 : 0;
     }
+    let byDeadline = 0;
+    if (slack !== null) for (let i = 0; i < n; i++) byDeadline += delay[i]! <= slack ? 1 : 0;
     const [p50, p90] = selectQuantiles(delay, [0.5, 0.9]);
     return {
       simulations: n,
