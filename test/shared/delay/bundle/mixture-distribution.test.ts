@@ -29,7 +29,7 @@ describe.each(FAMILIES)('TailMixtureDistribution %s on a grid', (family) => {
       const x = lo + i;
       const cdf = dist.cdf(x);
       const pdf = dist.pdf(x);
-      // 1e-10 absolute: the grid interpolates a smooth Lomax component to that tolerance.
+      // 1e-10 absolute, the grid evaluation contract (shared/delay/predictive.ts).
       if (!(Math.abs(F[i]! - cdf) <= 1e-10)) throw new Error(`${family} F(${x}): grid ${F[i]}, point ${cdf}`);
       if (!(Math.abs(f[i]! - pdf) <= 1e-10)) throw new Error(`${family} f(${x}): grid ${f[i]}, point ${pdf}`);
     }
@@ -54,7 +54,7 @@ describe.each(FAMILIES)('TailMixtureDistribution %s on a half-minute grid', (fam
 });
 
 describe('TailMixtureDistribution, a wide Lomax component', () => {
-  // lambda = 600 minutes: smooth enough that the grid interpolates it between exact points.
+  // lambda = 600 minutes: wide enough that the grid steps it by its series between exact points.
   const eta = [5, Math.log(12), 30, Math.log(40), -1, Math.log(600), Math.log(2.4), 0];
   const dist = new TailMixtureDistribution('gumbel-gumbel-lomax', eta, 4, 6.1);
 
