@@ -112,15 +112,25 @@ export class DrawTable {
   ) {
     const first = findFirst((x) => dist.cdf(x) > LOW_TAIL, SEARCH_LO, SEARCH_HI, hint?.[0]);
     let lo = first - 1;
-    const light = findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI, hint?.[1]);
-    if (light - lo > MAX_SPAN_MINUTES) {
+    // One or two evaluations settle the usual cases without searching the whole range: a tail
+    // light enough to end on the grid is searched for on the grid only; a heavy tail whose median
+    // lies within a quarter span of lo is cut at lo + MAX_SPAN_MINUTES with lo kept, which is
+    // what the full searches below would find.
+    const quarter = Math.floor(MAX_SPAN_MINUTES / 4);
+    let light: number;
+    if (dist.survival(lo + MAX_SPAN_MINUTES) <= HIGH_TAIL) {
+      light = findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, lo + MAX_SPAN_MINUTES, hint?.[1]);
+    } else if (dist.cdf(lo + quarter) >= 0.5) {
+      light = SEARCH_HI;
+    } else {
+      light = findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI, hint?.[1]);
       // Wider than the grid at both ends (a population draw for airports absent from the data
       // can spread over days): keep at most a quarter of the span below the median, so the
       // window holds the bulk of the mass and the far masses are lumped at its two ends, where
       // F_A(m + d) is already near 0 or near 1, instead of starting days early and cutting
       // the bulk off. A heavy upper tail alone keeps its natural start.
       const median = findFirst((x) => dist.cdf(x) >= 0.5, lo, SEARCH_HI);
-      lo = Math.max(lo, median - Math.floor(MAX_SPAN_MINUTES / 4));
+      lo = Math.max(lo, median - quarter);
     }
     const hiCap = lo + MAX_SPAN_MINUTES;
     let hi = Math.min(hiCap, light);
