@@ -80,8 +80,9 @@ const RESYNC_POINTS = 32;
 /**
  * Adds weight * F (or weight * f) at lo, lo + step, ... into out: e^{-z} is stepped by the
  * constant ratio e^{-step/beta} and recomputed every RESYNC_POINTS points, so one exp per point
- * remains, and none where e^{-z} is negligible or nearly 1. Equal to gumbelCdf and gumbelPdf
- * within 2.4e-16 * weight (absolute); parameters assumed valid.
+ * remains (from a table, expNegative), and none where e^{-z} is negligible or nearly 1. Equal
+ * to gumbelCdf and gumbelPdf within 3e-14 relative or 2.4e-16 * weight absolute; parameters
+ * assumed valid.
  */
 export function addGumbelGrid(out: Float64Array, lo: number, step: number, mu: number, beta: number, weight: number, density: boolean): void {
   const n = out.length;
@@ -96,7 +97,7 @@ export function addGumbelGrid(out: Float64Array, lo: number, step: number, mu: n
     // Far below the location e^{-t} < 2.4e-16 adds nothing that matters; far above it
     // e^{-t} = 1 - t + t^2 / 2 to within t^3 / 6 < 2e-16. Only the band between needs an exp.
     if (t > NEGLIGIBLE_T) continue;
-    const f = t < SERIES_T ? 1 - t * (1 - t / 2) : Math.exp(-t);
+    const f = t < SERIES_T ? 1 - t * (1 - t / 2) : expNegative(t);
     // Multiplying t by f first keeps 0 * Infinity out.
     out[i]! += density ? scale * (t * f) : weight * f;
   }
@@ -104,6 +105,19 @@ export function addGumbelGrid(out: Float64Array, lo: number, step: number, mu: n
 
 const NEGLIGIBLE_T = 36;
 const SERIES_T = 1e-5;
+
+// e^{-t} for 0 <= t <= NEGLIGIBLE_T as e^{-k/64} from a table times the degree-5 Taylor
+// polynomial of e^{-r}, r = t - k/64 < 1/64: relative error under 3e-14 (r^6 / 720 < 2e-14, plus
+// rounding), for about a third of Math.exp's time. The grids spend most of their time here.
+const EXP_STEPS = 64;
+const EXP_TABLE = Float64Array.from({ length: NEGLIGIBLE_T * EXP_STEPS + 2 }, (_, k) => Math.exp(-k / EXP_STEPS));
+
+function expNegative(t: number): number {
+  const y = t * EXP_STEPS;
+  const k = y | 0;
+  const r = (y - k) / EXP_STEPS;
+  return EXP_TABLE[k]! * (1 - r * (1 - r * (0.5 - r * (1 / 6 - r * (1 / 24 - r / 120)))));
+}
 
 /**
  * A Gumbel as a DelayDistribution object, for the risk engine and the models' predictives,

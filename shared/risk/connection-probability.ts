@@ -8,7 +8,7 @@
 // The posterior predictive is the mean over draws; the credible interval is the central quantile
 // range across draws. The result is monotone in m by construction (non-negative weights times a
 // CDF), which the bisection for the minimum layover relies on.
-import type { DrawTable, RouteTables } from './delay-table';
+import { FAR_SHIFT, FAR_STEP, type DrawTable, type RouteTables } from './delay-table';
 
 /** Longest layover the minimum-layover search considers (minutes): a longer gap is a stopover. */
 export const MAX_LAYOVER_MINUTES = 1440;
@@ -33,13 +33,35 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
   const inEnd = Math.max(inStart, Math.min(coreLength, nA - shift));
   // Core points below A's grid meet F_A = 0 and add nothing; past A's whole-minute table, cdfAt.
   for (let i = inStart; i < inEnd; i++) sum += w[i]! * fa[i + shift]!;
-  for (let i = inEnd; i < coreLength; i++) sum += w[i]! * arrival.cdfAt(m + lo + i);
+  const { far, top, hi: hiA, beyondHi } = arrival;
+  // Past A's whole-minute table: its far points (farCdf, written out: a call that is not
+  // inlined would box every value it returns), then F(hi_A) from hi_A on.
+  const farEnd = Math.max(inEnd, Math.min(coreLength, hiA - m - lo));
+  for (let i = inEnd; i < farEnd; i++) {
+    const offset = m + lo + i - top;
+    const j = offset >> FAR_SHIFT;
+    const f0 = far[j]!;
+    sum += w[i]! * (f0 + (far[j + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
+  }
+  for (let i = farEnd; i < coreLength; i++) sum += w[i]! * beyondHi;
   const tail = departure.tailIndex;
   const tw = departure.tailWeight;
   for (let k = 0; k < tail.length; k++) {
     const j = tail[k]! + shift;
     if (j < 0) continue;
-    sum += tw[k]! * (j < nA ? fa[j]! : arrival.cdfAt(m + lo + tail[k]!));
+    // Each case adds its own product: a value chosen between F_A(hi_A), a field, and the
+    // table's numbers would be kept boxed.
+    if (j < nA) sum += tw[k]! * fa[j]!;
+    else {
+      const x = m + lo + tail[k]!;
+      if (x >= hiA) sum += tw[k]! * beyondHi;
+      else {
+        const offset = x - top;
+        const jj = offset >> FAR_SHIFT;
+        const f0 = far[jj]!;
+        sum += tw[k]! * (f0 + (far[jj + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
+      }
+    }
   }
   // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under S_D(hi_D).
   sum += departure.highMass * arrival.cdfAt(m + departure.hi);
@@ -92,26 +114,57 @@ export function drawMakeProbability4(arrival: DrawTable, departure: DrawTable, m
       a2 = a3;
     }
   }
-  for (let i = end; i < coreLength; i++) {
-    const wi = w[i]!;
-    const x = m0 + lo + i;
-    s0 += wi * arrival.cdfAt(x);
-    s1 += wi * arrival.cdfAt(x + 1);
-    s2 += wi * arrival.cdfAt(x + 2);
-    s3 += wi * arrival.cdfAt(x + 3);
-  }
+  // Past the common range: F_A from the table, or past it from its far points (farCdf, written
+  // out), one margin at a time in the same order of i as the sums above. A value picked between
+  // F(hi_A), a field, and the tables' numbers would be kept boxed, so each case adds its own
+  // product.
+  const { far, top, hi: hiA, beyondHi } = arrival;
   const tail = departure.tailIndex;
   const tw = departure.tailWeight;
-  for (let k = 0; k < tail.length; k++) {
-    const j = tail[k]! + shift;
-    if (j + 3 < 0) continue;
-    const wk = tw[k]!;
-    const x = m0 + lo + tail[k]!;
-    if (j >= 0) s0 += wk * (j < nA ? fa[j]! : arrival.cdfAt(x));
-    if (j + 1 >= 0) s1 += wk * (j + 1 < nA ? fa[j + 1]! : arrival.cdfAt(x + 1));
-    if (j + 2 >= 0) s2 += wk * (j + 2 < nA ? fa[j + 2]! : arrival.cdfAt(x + 2));
-    s3 += wk * (j + 3 < nA ? fa[j + 3]! : arrival.cdfAt(x + 3));
+  const sums = scratchSums;
+  sums[0] = s0;
+  sums[1] = s1;
+  sums[2] = s2;
+  sums[3] = s3;
+  for (let k = 0; k < 4; k++) {
+    let sum = sums[k]!;
+    const mk = m0 + k;
+    const shiftK = shift + k;
+    for (let i = end; i < coreLength; i++) {
+      const j = i + shiftK;
+      if (j < nA) sum += w[i]! * fa[j]!;
+      else {
+        const x = mk + lo + i;
+        if (x >= hiA) sum += w[i]! * beyondHi;
+        else {
+          const offset = x - top;
+          const jj = offset >> FAR_SHIFT;
+          const f0 = far[jj]!;
+          sum += w[i]! * (f0 + (far[jj + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
+        }
+      }
+    }
+    for (let t = 0; t < tail.length; t++) {
+      const j = tail[t]! + shiftK;
+      if (j < 0) continue;
+      if (j < nA) sum += tw[t]! * fa[j]!;
+      else {
+        const x = mk + lo + tail[t]!;
+        if (x >= hiA) sum += tw[t]! * beyondHi;
+        else {
+          const offset = x - top;
+          const jj = offset >> FAR_SHIFT;
+          const f0 = far[jj]!;
+          sum += tw[t]! * (f0 + (far[jj + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
+        }
+      }
+    }
+    sums[k] = sum;
   }
+  s0 = sums[0]!;
+  s1 = sums[1]!;
+  s2 = sums[2]!;
+  s3 = sums[3]!;
   const high = departure.highMass;
   const x = m0 + departure.hi;
   out[at] = Math.min(1, s0 + high * arrival.cdfAt(x));
@@ -119,6 +172,8 @@ export function drawMakeProbability4(arrival: DrawTable, departure: DrawTable, m
   out[at + 2] = Math.min(1, s2 + high * arrival.cdfAt(x + 2));
   out[at + 3] = Math.min(1, s3 + high * arrival.cdfAt(x + 3));
 }
+
+const scratchSums = new Float64Array(4);
 
 /** The inbound arrival posterior and the outbound departure posterior of one connection. */
 export class ConnectionPair {

@@ -26,7 +26,7 @@ const SEARCH_HI = 7200;
  */
 const NEAR_TAIL_MINUTES = 240;
 /** Spacing of the far tail's points (minutes); a power of two, so positions in a cell are exact. */
-const FAR_STEP = 8;
+export const FAR_STEP = 8;
 /**
  * How far the end-corrected trapezoid's mass over the core may stray from the exact
  * F(core) - F(lo) before the core's weights are replaced by exact cell masses (see the density
@@ -34,7 +34,8 @@ const FAR_STEP = 8;
  * between two minutes strays by up to f0 / 2, which for a bundle's severe component is 1e-4 or more.
  */
 const CORE_MASS_TOLERANCE = 1e-5;
-const FAR_SHIFT = 3;
+/** log2 of FAR_STEP. */
+export const FAR_SHIFT = 3;
 
 /**
  * What a table is for: 'cdf' (the inbound arrival delay, whose CDF the quadrature looks up) or
@@ -92,9 +93,9 @@ export class DrawTable {
   /** True when the grid was cut at MAX_SPAN_MINUTES with more than HIGH_TAIL mass beyond it. */
   readonly heavyTail: boolean;
   /** The last minute in cdf; the far tail's points start here. */
-  private readonly top: number;
-  /** F at top, top + FAR_STEP, ..., hi (empty when cdf reaches hi). */
-  private readonly far: Float64Array;
+  readonly top: number;
+  /** F at top, top + FAR_STEP, ..., hi (empty when cdf reaches hi); see farCdf. */
+  readonly far: Float64Array;
   /** The tail nodes from top to hi: minutes, S and F there (for the inverse beyond top). */
   private readonly farNodes: Float64Array;
 
@@ -348,14 +349,38 @@ export class DrawTable {
     if (i < 0) return 0;
     const cdf = this.cdf;
     if (i < cdf.length) return cdf[i]!;
-    if (x >= this.hi) return this.beyondHi;
-    // Linear between far points. FAR_STEP is a power of two, so the position in the cell is exact,
-    // and F >= 0.99 here, so far[j + 1] - far[j] is exact (Sterbenz): F rises from far[j] to at
-    // most far[j + 1].
-    const offset = x - this.top;
-    const j = offset >> FAR_SHIFT;
-    const f0 = this.far[j]!;
-    return f0 + (this.far[j + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP);
+    return farCdf(this.far, this.top, this.hi, this.beyondHi, x);
+  }
+
+  /**
+   * inverse(u[i]), capped at cap, into out[i] for i = start, start + stride, ... (the trip
+   * simulation's sweeps). The usual case, u within the whole-minute core, is searched here, so
+   * that its result goes straight into out: a double returned from a call that is not inlined
+   * is boxed on the heap.
+   */
+  inverseInto(u: Float64Array, out: Float64Array, start: number, stride: number, cap: number): void {
+    const cdf = this.cdf;
+    const last = this.coreLength - 1;
+    const lowest = cdf[0]!;
+    const coreTop = cdf[last]!;
+    for (let i = start; i < u.length; i += stride) {
+      const v = u[i]!;
+      if (!(v > lowest && v <= coreTop)) {
+        out[i] = Math.min(cap, this.inverse(v));
+        continue;
+      }
+      // The largest a with cdf[a] < v, as in inverse.
+      let a = 0;
+      let b = last;
+      while (b - a > 1) {
+        const mid = (a + b) >>> 1;
+        if (cdf[mid]! < v) a = mid;
+        else b = mid;
+      }
+      const fa = cdf[a]!;
+      const fb = cdf[b]!;
+      out[i] = Math.min(cap, this.lo + a + (fb > fa ? (v - fa) / (fb - fa) : 0));
+    }
   }
 
   /**
@@ -400,6 +425,22 @@ export class DrawTable {
     const f1 = nodes[3 * b + 2]!;
     return f1 > f0 ? x0 + ((x1 - x0) * (u - f0)) / (f1 - f0) : x0;
   }
+}
+
+/**
+ * F at a whole minute x past a table's whole-minute part (x > top): linear between the far
+ * points, F(hi) from hi on. FAR_STEP is a power of two, so the position in the cell is exact, and
+ * F >= 0.99 here, so far[j + 1] - far[j] is exact (Sterbenz): F rises from far[j] to at most
+ * far[j + 1]. A plain function of numbers and an array, so that the quadrature loops can have it
+ * inlined: a double returned from a call that is not inlined is boxed on the heap, and the loops
+ * ask for millions of these.
+ */
+export function farCdf(far: Float64Array, top: number, hi: number, beyondHi: number, x: number): number {
+  if (x >= hi) return beyondHi;
+  const offset = x - top;
+  const j = offset >> FAR_SHIFT;
+  const f0 = far[j]!;
+  return f0 + (far[j + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP);
 }
 
 const EMPTY = new Float64Array(0);

@@ -96,10 +96,7 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
     const row = new Float64Array(n);
     if (!tables) return row;
     for (let i = 0; i < n; i++) uniforms[i] = stream.uniform();
-    for (let t = 0; t < Math.min(draws, n); t++) {
-      const table = tables.table(t);
-      for (let i = t; i < n; i += draws) row[i] = Math.min(MAX_SIMULATED_DELAY_MINUTES, table.inverse(uniforms[i]!));
-    }
+    for (let t = 0; t < Math.min(draws, n); t++) tables.table(t).inverseInto(uniforms, row, t, draws, MAX_SIMULATED_DELAY_MINUTES);
     return row;
   };
   const none = new Float64Array(0);
