@@ -68,113 +68,6 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
   return Math.min(1, sum);
 }
 
-/**
- * drawMakeProbability at m0, m0 + 1, m0 + 2 and m0 + 3 in one pass, into out[at..at + 3]: each
- * D weight is read once and meets a sliding window of four F_A values. Every sum adds the same
- * terms in the same order as drawMakeProbability (terms of F_A = 0 add +0), so the values are
- * bit for bit the same, which the exact minimum-layover check relies on.
- */
-export function drawMakeProbability4(arrival: DrawTable, departure: DrawTable, m0: number, out: Float64Array, at: number): void {
-  const lo = departure.lo;
-  const shift = m0 + lo - arrival.lo;
-  const fa = arrival.cdf;
-  const nA = fa.length;
-  const w = departure.weight;
-  const low = departure.lowMass;
-  let s0 = low * arrival.cdfAt(m0 + lo);
-  let s1 = low * arrival.cdfAt(m0 + 1 + lo);
-  let s2 = low * arrival.cdfAt(m0 + 2 + lo);
-  let s3 = low * arrival.cdfAt(m0 + 3 + lo);
-  const coreLength = departure.coreLength;
-  // The range where all four F_A values lie in A's whole-minute table; before it only the last
-  // three points can meet F_A > 0, after it cdfAt.
-  const start = Math.min(coreLength, Math.max(0, -shift));
-  const end = Math.max(start, Math.min(coreLength, nA - shift - 3));
-  for (let i = Math.max(0, start - 3); i < start; i++) {
-    const j = i + shift;
-    const wi = w[i]!;
-    if (j + 1 >= 0) s1 += wi * arrival.cdfAt(m0 + 1 + lo + i);
-    if (j + 2 >= 0) s2 += wi * arrival.cdfAt(m0 + 2 + lo + i);
-    if (j + 3 >= 0) s3 += wi * arrival.cdfAt(m0 + 3 + lo + i);
-  }
-  if (end > start) {
-    let j = start + shift;
-    let a0 = fa[j]!;
-    let a1 = fa[j + 1]!;
-    let a2 = fa[j + 2]!;
-    for (let i = start; i < end; i++, j++) {
-      const a3 = fa[j + 3]!;
-      const wi = w[i]!;
-      s0 += wi * a0;
-      s1 += wi * a1;
-      s2 += wi * a2;
-      s3 += wi * a3;
-      a0 = a1;
-      a1 = a2;
-      a2 = a3;
-    }
-  }
-  // Past the common range: F_A from the table, or past it from its far points (farCdf, written
-  // out), one margin at a time in the same order of i as the sums above. A value picked between
-  // F(hi_A), a field, and the tables' numbers would be kept boxed, so each case adds its own
-  // product.
-  const { far, top, hi: hiA, beyondHi } = arrival;
-  const tail = departure.tailIndex;
-  const tw = departure.tailWeight;
-  const sums = scratchSums;
-  sums[0] = s0;
-  sums[1] = s1;
-  sums[2] = s2;
-  sums[3] = s3;
-  for (let k = 0; k < 4; k++) {
-    let sum = sums[k]!;
-    const mk = m0 + k;
-    const shiftK = shift + k;
-    for (let i = end; i < coreLength; i++) {
-      const j = i + shiftK;
-      if (j < nA) sum += w[i]! * fa[j]!;
-      else {
-        const x = mk + lo + i;
-        if (x >= hiA) sum += w[i]! * beyondHi;
-        else {
-          const offset = x - top;
-          const jj = offset >> FAR_SHIFT;
-          const f0 = far[jj]!;
-          sum += w[i]! * (f0 + (far[jj + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
-        }
-      }
-    }
-    for (let t = 0; t < tail.length; t++) {
-      const j = tail[t]! + shiftK;
-      if (j < 0) continue;
-      if (j < nA) sum += tw[t]! * fa[j]!;
-      else {
-        const x = mk + lo + tail[t]!;
-        if (x >= hiA) sum += tw[t]! * beyondHi;
-        else {
-          const offset = x - top;
-          const jj = offset >> FAR_SHIFT;
-          const f0 = far[jj]!;
-          sum += tw[t]! * (f0 + (far[jj + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
-        }
-      }
-    }
-    sums[k] = sum;
-  }
-  s0 = sums[0]!;
-  s1 = sums[1]!;
-  s2 = sums[2]!;
-  s3 = sums[3]!;
-  const high = departure.highMass;
-  const x = m0 + departure.hi;
-  out[at] = Math.min(1, s0 + high * arrival.cdfAt(x));
-  out[at + 1] = Math.min(1, s1 + high * arrival.cdfAt(x + 1));
-  out[at + 2] = Math.min(1, s2 + high * arrival.cdfAt(x + 2));
-  out[at + 3] = Math.min(1, s3 + high * arrival.cdfAt(x + 3));
-}
-
-const scratchSums = new Float64Array(4);
-
 /** The inbound arrival posterior and the outbound departure posterior of one connection. */
 export class ConnectionPair {
   readonly draws: number;
@@ -207,23 +100,6 @@ export class ConnectionPair {
     return out;
   }
 
-  /**
-   * drawProbabilities at m0..m0 + 3 worked out in one pass (drawMakeProbability4) and memoised:
-   * the same values, for about the price of two.
-   */
-  prefetch(m0: number): void {
-    if (!Number.isInteger(m0)) throw new RangeError(`the margin must be whole minutes, got ${m0}`);
-    if (this.memo.has(m0) && this.memo.has(m0 + 1) && this.memo.has(m0 + 2) && this.memo.has(m0 + 3)) return;
-    const all = new Float64Array(4 * this.draws);
-    for (let t = 0; t < this.draws; t++) drawMakeProbability4(this.arrival.table(t), this.departure.table(t), m0, all, 4 * t);
-    for (let k = 0; k < 4; k++) {
-      if (this.memo.has(m0 + k)) continue;
-      const out = new Float64Array(this.draws);
-      for (let t = 0; t < this.draws; t++) out[t] = all[4 * t + k]!;
-      this.memo.set(m0 + k, out);
-    }
-  }
-
   /** Posterior predictive P(A - D <= m). */
   probability(m: number): number {
     return mean(this.drawProbabilities(m));
@@ -249,8 +125,7 @@ export function pMakeIntervalAtLayover(pair: ConnectionPair, layoverMinutes: num
  *
  * The same search runs three times: on the middle draw alone, from a rough guess; on the mean
  * over every GUIDE_STRIDE-th draw (an eighth of the work per evaluation), from that answer; then
- * on all draws, from the second answer, with the four margins around it worked out in one pass
- * (ConnectionPair.prefetch). Each brackets its start by doubling steps, then narrows the bracket
+ * on all draws, from the second answer. Each brackets its start by doubling steps, then narrows the bracket
  * on whole minutes by linear interpolation between its ends (checking the minute next to each
  * interpolated one, where the answer usually is) or by halving it. So at the answer P >= target
  * and at one minute less P < target, exactly, for the same function; only the number of
@@ -281,8 +156,6 @@ export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target:
     guess = guide.layover ?? MAX_LAYOVER_MINUTES;
     slope = guide.slope;
   }
-  // The answer and the minute before it are usually within a minute or two of the guide's.
-  pair.prefetch(Math.min(MAX_LAYOVER_MINUTES, Math.max(0, guess)) - 2 - mctMinutes);
   return searchMinimum((layover) => pair.probability(layover - mctMinutes), guess, target, 1, slope).layover;
 }
 

@@ -4,7 +4,6 @@ import {
   centralInterval,
   ConnectionPair,
   drawMakeProbability,
-  drawMakeProbability4,
   makeCurvePoints,
   minimumLayover,
   pMakeAtLayover,
@@ -437,36 +436,6 @@ describe('draws wider than the grid', () => {
     const a = new DrawTable(gumbelDelay(5, 12), 'cdf');
     expect(d.lo).toBeGreaterThan(-2000);
     for (const m of [0, 30, 90]) closeTo(drawMakeProbability(a, d, m), wideReference(a, d, m), 2e-3, `m=${m}`);
-  });
-});
-
-describe('four margins in one pass (drawMakeProbability4)', () => {
-  it('gives bit for bit the values of drawMakeProbability, also where the grids barely overlap', () => {
-    const eta = [2, Math.log(11), 30, Math.log(45), -1.5, Math.log(300), Math.log(2.5), -1];
-    const cases: [DrawTable, DrawTable][] = [
-      [new DrawTable(gumbelDelay(5, 12), 'cdf'), new DrawTable(gumbelDelay(-3, 9), 'density')],
-      [new DrawTable(new TailMixtureDistribution('gumbel-gumbel-lomax', eta, 4, 0), 'cdf'), new DrawTable(new TailMixtureDistribution('gumbel-gumbel-lomax', eta, 4, 6.1), 'density')],
-    ];
-    const out = new Float64Array(4);
-    for (const [a, d] of cases) {
-      // From far below (no overlap) through partial overlaps at both ends to far above.
-      const ms = [-6000, a.lo - d.hi - 5, a.lo - d.lo - 4, -40, -1, 0, 37, a.hi - d.lo - 2, a.hi - d.hi + 1, 2000, 6000];
-      for (const m0 of ms) {
-        for (let m = m0 - 4; m <= m0 + 4; m++) {
-          drawMakeProbability4(a, d, m, out, 0);
-          for (let k = 0; k < 4; k++) expect(out[k], `m=${m + k}`).toBe(drawMakeProbability(a, d, m + k));
-        }
-      }
-    }
-  });
-
-  it('prefetch memoises the same draw probabilities as one margin at a time', () => {
-    const arrival = gumbelRoute('ORD', 'DEN', 'arrival', [{ mu: 5, beta: 12 }, { mu: 9, beta: 14 }]);
-    const departure = gumbelRoute('DEN', 'SFO', 'departure', [{ mu: 1, beta: 8 }, { mu: -2, beta: 10 }]);
-    const fetched = new ConnectionPair(new RouteTables(arrival, 2), new RouteTables(departure, 2));
-    const plain = new ConnectionPair(new RouteTables(arrival, 2), new RouteTables(departure, 2));
-    fetched.prefetch(28);
-    for (let m = 26; m <= 33; m++) expect(Array.from(fetched.drawProbabilities(m))).toEqual(Array.from(plain.drawProbabilities(m)));
   });
 });
 
