@@ -369,16 +369,9 @@ export class DrawTable {
         out[i] = Math.min(cap, this.inverse(v));
         continue;
       }
-      // The largest a with cdf[a] < v, as in inverse.
-      let a = 0;
-      let b = last;
-      while (b - a > 1) {
-        const mid = (a + b) >>> 1;
-        if (cdf[mid]! < v) a = mid;
-        else b = mid;
-      }
+      const a = largestBelow(cdf, v, last);
       const fa = cdf[a]!;
-      const fb = cdf[b]!;
+      const fb = cdf[a + 1]!;
       out[i] = Math.min(cap, this.lo + a + (fb > fa ? (v - fa) / (fb - fa) : 0));
     }
   }
@@ -392,16 +385,10 @@ export class DrawTable {
     const n = cdf.length;
     if (u <= cdf[0]!) return invertByBisection(this.dist, u, SEARCH_LO, this.lo);
     if (u <= cdf[n - 1]!) {
-      // The largest a with cdf[a] < u; most draws fall in the core.
-      let a = 0;
-      let b = u <= cdf[this.coreLength - 1]! ? this.coreLength - 1 : n - 1;
-      while (b - a > 1) {
-        const mid = (a + b) >>> 1;
-        if (cdf[mid]! < u) a = mid;
-        else b = mid;
-      }
+      // Most draws fall in the core.
+      const a = largestBelow(cdf, u, u <= cdf[this.coreLength - 1]! ? this.coreLength - 1 : n - 1);
       const fa = cdf[a]!;
-      const fb = cdf[b]!;
+      const fb = cdf[a + 1]!;
       const t = fb > fa ? (u - fa) / (fb - fa) : 0;
       return this.lo + a + t;
     }
@@ -533,6 +520,20 @@ function findFirst(holds: (x: number) => boolean, a0: number, b0: number, guess?
     else a = mid;
   }
   return b;
+}
+
+/**
+ * The largest a < b with cdf[a] < u, for cdf[0] < u <= cdf[b] (so cdf[a + 1] >= u). Returns a
+ * small integer, which, unlike a double, a call returns without boxing.
+ */
+function largestBelow(cdf: Float64Array, u: number, b: number): number {
+  let a = 0;
+  while (b - a > 1) {
+    const mid = (a + b) >>> 1;
+    if (cdf[mid]! < u) a = mid;
+    else b = mid;
+  }
+  return a;
 }
 
 function invertByBisection(dist: DelayDistribution, u: number, a0: number, b0: number): number {
