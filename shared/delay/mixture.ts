@@ -23,11 +23,7 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
   if (Math.abs(total - 1) > 1e-9) throw new RangeError(`mixture weights must sum to 1, got ${total}`);
   const comps = components.slice();
   const ws = Float64Array.from(weights);
-  const sum = (f: (d: DelayDistribution) => number): number => {
-    let s = 0;
-    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * f(comps[k]!);
-    return s;
-  };
+
   const gridded = comps.every((d) => d.cdfGrid && d.pdfGrid);
   let scratch = new Float64Array(0);
   const grid = (lo: number, out: Float64Array, step: number | undefined, density: boolean) => {
@@ -43,16 +39,33 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
       for (let i = 0; i < out.length; i++) out[i]! += w * part[i]!;
     }
   };
-  const jumps = comps.flatMap((d, k) => (d.densityJumps?.() ?? []).map(([x, jump, slope]) => [x, ws[k]! * jump, ws[k]! * slope] as const));
+  const jumps = comps.some((d) => d.densityJumps) ? comps.flatMap((d, k) => (d.densityJumps?.() ?? []).map(([x, jump, slope]) => [x, ws[k]! * jump, ws[k]! * slope] as const)) : [];
   return {
     ...(gridded && {
       cdfGrid: (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, false),
       pdfGrid: (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, true),
     }),
     ...(jumps.length > 0 && { densityJumps: () => jumps }),
-    cdf: (x) => (Number.isNaN(x) ? NaN : sum((d) => d.cdf(x))),
-    survival: (x) => (Number.isNaN(x) ? NaN : sum((d) => d.survival(x))),
-    pdf: (x) => (Number.isNaN(x) ? NaN : sum((d) => d.pdf(x))),
+    // Plain loops rather than a helper taking a closure: the risk tables call these thousands
+    // of times per route, and a closure per call is garbage.
+    cdf: (x) => {
+      if (Number.isNaN(x)) return NaN;
+      let s = 0;
+      for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.cdf(x);
+      return s;
+    },
+    survival: (x) => {
+      if (Number.isNaN(x)) return NaN;
+      let s = 0;
+      for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.survival(x);
+      return s;
+    },
+    pdf: (x) => {
+      if (Number.isNaN(x)) return NaN;
+      let s = 0;
+      for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.pdf(x);
+      return s;
+    },
     sample: (rng: Rng) => {
       // Choose a component by its weight, then draw from it.
       let u = rng.uniform();
