@@ -8,7 +8,7 @@
 // The posterior predictive is the mean over draws; the credible interval is the central quantile
 // range across draws. The result is monotone in m by construction (non-negative weights times a
 // CDF), which the bisection for the minimum layover relies on.
-import { FAR_SHIFT, FAR_STEP, type DrawTable, type RouteTables } from './delay-table';
+import { farInterpolate, type DrawTable, type RouteTables } from './delay-table';
 
 /** Longest layover the minimum-layover search considers (minutes): a longer gap is a stopover. */
 export const MAX_LAYOVER_MINUTES = 1440;
@@ -31,37 +31,22 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
   const coreLength = departure.coreLength;
   const inStart = Math.min(coreLength, Math.max(0, -shift));
   const inEnd = Math.max(inStart, Math.min(coreLength, nA - shift));
-  // Core points below A's grid meet F_A = 0 and add nothing; past A's whole-minute table, cdfAt.
+  // Core points below A's grid meet F_A = 0 and add nothing; past A's whole-minute table come its
+  // far points, then F(hi_A). Each case adds its own product (see farInterpolate).
   for (let i = inStart; i < inEnd; i++) sum += w[i]! * fa[i + shift]!;
   const { far, top, hi: hiA, beyondHi } = arrival;
-  // Past A's whole-minute table: its far points (farCdf, written out: a call that is not
-  // inlined would box every value it returns), then F(hi_A) from hi_A on.
   const farEnd = Math.max(inEnd, Math.min(coreLength, hiA - m - lo));
-  for (let i = inEnd; i < farEnd; i++) {
-    const offset = m + lo + i - top;
-    const j = offset >> FAR_SHIFT;
-    const f0 = far[j]!;
-    sum += w[i]! * (f0 + (far[j + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
-  }
+  for (let i = inEnd; i < farEnd; i++) sum += w[i]! * farInterpolate(far, top, m + lo + i);
   for (let i = farEnd; i < coreLength; i++) sum += w[i]! * beyondHi;
   const tail = departure.tailIndex;
   const tw = departure.tailWeight;
   for (let k = 0; k < tail.length; k++) {
     const j = tail[k]! + shift;
     if (j < 0) continue;
-    // Each case adds its own product: a value chosen between F_A(hi_A), a field, and the
-    // table's numbers would be kept boxed.
+    const x = m + lo + tail[k]!;
     if (j < nA) sum += tw[k]! * fa[j]!;
-    else {
-      const x = m + lo + tail[k]!;
-      if (x >= hiA) sum += tw[k]! * beyondHi;
-      else {
-        const offset = x - top;
-        const jj = offset >> FAR_SHIFT;
-        const f0 = far[jj]!;
-        sum += tw[k]! * (f0 + (far[jj + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP));
-      }
-    }
+    else if (x >= hiA) sum += tw[k]! * beyondHi;
+    else sum += tw[k]! * farInterpolate(far, top, x);
   }
   // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under S_D(hi_D).
   sum += departure.highMass * arrival.cdfAt(m + departure.hi);
@@ -125,11 +110,11 @@ export function pMakeIntervalAtLayover(pair: ConnectionPair, layoverMinutes: num
  *
  * The same search runs three times: on the middle draw alone, from a rough guess; on the mean
  * over every GUIDE_STRIDE-th draw (an eighth of the work per evaluation), from that answer; then
- * on all draws, from the second answer. Each brackets its start by doubling steps, then narrows the bracket
- * on whole minutes by linear interpolation between its ends (checking the minute next to each
- * interpolated one, where the answer usually is) or by halving it. So at the answer P >= target
- * and at one minute less P < target, exactly, for the same function; only the number of
- * evaluations depends on the guesses, never the answer.
+ * on all draws, from the second answer. Each brackets its start by doubling steps, then
+ * narrows the bracket on whole minutes by linear interpolation between its ends (checking the
+ * minute next to each interpolated one, where the answer usually is) or by halving it. So at the
+ * answer P >= target and at one minute less P < target, exactly, for the same function; only
+ * the number of evaluations depends on the guesses, never the answer.
  */
 export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target: number): number | null {
   if (!(target > 0 && target < 1)) throw new RangeError(`target must lie in (0, 1), got ${target}`);

@@ -26,7 +26,7 @@ const SEARCH_HI = 7200;
  */
 const NEAR_TAIL_MINUTES = 240;
 /** Spacing of the far tail's points (minutes); a power of two, so positions in a cell are exact. */
-export const FAR_STEP = 8;
+const FAR_STEP = 8;
 /**
  * How far the end-corrected trapezoid's mass over the core may stray from the exact
  * F(core) - F(lo) before the core's weights are replaced by exact cell masses (see the density
@@ -35,7 +35,7 @@ export const FAR_STEP = 8;
  */
 const CORE_MASS_TOLERANCE = 1e-5;
 /** log2 of FAR_STEP. */
-export const FAR_SHIFT = 3;
+const FAR_SHIFT = 3;
 
 /**
  * What a table is for: 'cdf' (the inbound arrival delay, whose CDF the quadrature looks up) or
@@ -94,7 +94,7 @@ export class DrawTable {
   readonly heavyTail: boolean;
   /** The last minute in cdf; the far tail's points start here. */
   readonly top: number;
-  /** F at top, top + FAR_STEP, ..., hi (empty when cdf reaches hi); see farCdf. */
+  /** F at top, top + FAR_STEP, ..., hi (empty when cdf reaches hi); see farInterpolate. */
   readonly far: Float64Array;
   /** The tail nodes from top to hi: minutes, S and F there (for the inverse beyond top). */
   private readonly farNodes: Float64Array;
@@ -163,7 +163,7 @@ export class DrawTable {
     const farCount = hi > top ? (hi - top) / FAR_STEP + 1 : 0;
     const weights = role === 'density' ? coreIndex + nodes : 0;
     const farNodes = farCount > 0 ? nodes - near : 0;
-    const store = takeFloats(n + farCount + weights + 3 * farNodes);
+    const store = floatChunks.take(n + farCount + weights + 3 * farNodes);
     const cdf = store.subarray(0, n);
     const far = store.subarray(n, n + farCount);
     this.farNodes = store.subarray(n + farCount + weights);
@@ -184,7 +184,7 @@ export class DrawTable {
       this.lowMass = checked(dist.cdf(lo), lo, 'CDF');
       const weight = store.subarray(n + farCount, n + farCount + coreIndex + 1);
       const tailWeight = store.subarray(n + farCount + coreIndex + 1);
-      const tailIndex = takeInts(nodes - 1);
+      const tailIndex = intChunks.take(nodes - 1);
       for (let k = 1; k < nodes; k++) tailIndex[k - 1] = tail[k]! - lo;
       const grid = (dist as DelayDistribution & GridEvaluation).pdfGrid;
       if (grid) {
@@ -416,14 +416,20 @@ export class DrawTable {
 
 /**
  * F at a whole minute x past a table's whole-minute part (x > top): linear between the far
- * points, F(hi) from hi on. FAR_STEP is a power of two, so the position in the cell is exact, and
- * F >= 0.99 here, so far[j + 1] - far[j] is exact (Sterbenz): F rises from far[j] to at most
- * far[j + 1]. A plain function of numbers and an array, so that the quadrature loops can have it
- * inlined: a double returned from a call that is not inlined is boxed on the heap, and the loops
- * ask for millions of these.
+ * points, F(hi) from hi on.
  */
-export function farCdf(far: Float64Array, top: number, hi: number, beyondHi: number, x: number): number {
-  if (x >= hi) return beyondHi;
+function farCdf(far: Float64Array, top: number, hi: number, beyondHi: number, x: number): number {
+  return x >= hi ? beyondHi : farInterpolate(far, top, x);
+}
+
+/**
+ * F at a whole minute top < x < hi, linear between the far points. FAR_STEP is a power of two,
+ * so the position in the cell is exact, and F >= 0.99 here, so far[j + 1] - far[j] is exact
+ * (Sterbenz): F rises from far[j] to at most far[j + 1]. The quadrature loops call this for
+ * the minutes between top and hi and add F(hi) apart: a value chosen between a number field and
+ * the arrays' numbers would be kept boxed on the heap, a million times per scoring run.
+ */
+export function farInterpolate(far: Float64Array, top: number, x: number): number {
   const offset = x - top;
   const j = offset >> FAR_SHIFT;
   const f0 = far[j]!;
@@ -436,34 +442,32 @@ const NO_JUMPS: readonly (readonly [number, number, number])[] = [];
 // Tables take their arrays as views of shared chunks. A scoring run builds thousands of tables;
 // each typed array of its own would get its own off-heap store, which V8 allocates, zeroes and
 // tracks one by one, and that cost about as much as filling them. A chunk is freed once no table
-// in it is left; only the newest is held here.
-const CHUNK_LENGTH = 1 << 16;
-let floatChunk = new Float64Array(0);
-let floatUsed = 0;
-let intChunk = new Int32Array(0);
-let intUsed = 0;
+// in it is left; only the newest is held here. Views are handed out once, so they start zeroed.
+class Chunks<T extends Float64Array | Int32Array> {
+  private chunk: T;
+  private used = 0;
 
-function takeFloats(length: number): Float64Array {
-  if (length > CHUNK_LENGTH >> 2) return new Float64Array(length);
-  if (floatUsed + length > floatChunk.length) {
-    floatChunk = new Float64Array(CHUNK_LENGTH);
-    floatUsed = 0;
+  constructor(
+    private readonly make: (length: number) => T,
+    private readonly length: number,
+  ) {
+    this.chunk = make(0);
   }
-  const view = floatChunk.subarray(floatUsed, floatUsed + length);
-  floatUsed += length;
-  return view;
+
+  take(length: number): T {
+    if (length > this.length >> 2) return this.make(length);
+    if (this.used + length > this.chunk.length) {
+      this.chunk = this.make(this.length);
+      this.used = 0;
+    }
+    const view = this.chunk.subarray(this.used, this.used + length) as T;
+    this.used += length;
+    return view;
+  }
 }
 
-function takeInts(length: number): Int32Array {
-  if (length > CHUNK_LENGTH >> 4) return new Int32Array(length);
-  if (intUsed + length > intChunk.length) {
-    intChunk = new Int32Array(CHUNK_LENGTH >> 2);
-    intUsed = 0;
-  }
-  const view = intChunk.subarray(intUsed, intUsed + length);
-  intUsed += length;
-  return view;
-}
+const floatChunks = new Chunks((n) => new Float64Array(n), 1 << 16);
+const intChunks = new Chunks((n) => new Int32Array(n), 1 << 14);
 const EMPTY_INDEX = new Int32Array(0);
 // Per-node working values, reused from table to table (tables are built one at a time).
 let scratchSurvival = new Float64Array(128);

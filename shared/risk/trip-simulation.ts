@@ -88,9 +88,9 @@ export function flightStream(seed: number, key: string, kind: 'arrival' | 'depar
 export function simulateTrips(flights: readonly SimFlight[], trips: readonly SimTrip[], simulations: number, draws: number, seed: number): TripSimulation[] {
   if (!Number.isInteger(simulations) || simulations < 1) throw new RangeError(`simulations must be a whole number >= 1, got ${simulations}`);
   const n = simulations;
-  // Each flight's delays in every simulation, drawn in one sweep of its own stream.
-  // The uniforms in stream order first, then inverted table by table (simulation i uses joint
-  // draw i mod draws): each table is read while it is in cache, and the values are the same.
+  // Each flight's delays in every simulation, drawn in one sweep of its own stream: the uniforms
+  // in stream order, then inverted table by table (simulation i uses joint draw i mod draws), so
+  // each table is read while it is in cache.
   const uniforms = new Float64Array(n);
   const sweep = (tables: RouteTables | undefined, stream: Rng): Float64Array => {
     const row = new Float64Array(n);
