@@ -123,45 +123,73 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
     return row;
   };
   // Then each trip in turn: its delays in one scratch row, summarised before the next trip.
+  // Trips with the same connections, final flight, rebook gap and deadline (travellers booked
+  // together) have the same outcomes in every simulation: they share one result.
   const delay = new Float64Array(n);
+  const zero = new Float64Array(n);
+  const extra = new Float64Array(n);
   const missedAll = new Uint8Array(trips.length * n);
-  return trips.map((trip, k) => {
-    const missed = missedAll.subarray(k * n, (k + 1) * n);
+  const results = new Map<string, TripSimulation>();
+  return trips.map((trip) => {
+    const key = tripKey(trip);
+    const known = results.get(key);
+    if (known) return known;
+    const missed = missedAll.subarray(results.size * n, (results.size + 1) * n);
     const g = trip.rebookGapMinutes;
     // The rebooking delays of its connections, summed: at least one gap (>= 1 minute) exactly
-    // where some connection was missed.
+    // where some connection was missed. Up to three rows are read in the loop below; a longer
+    // trip's later rows are summed into one first (the sums are whole multiples of gaps, exact).
     const connections = trip.connections;
-    if (connections.length === 0) delay.fill(0);
-    else delay.set(rebookingOf(connections[0]!, g));
-    for (let c = 1; c < connections.length; c++) {
-      const row = rebookingOf(connections[c]!, g);
-      for (let i = 0; i < n; i++) delay[i] = delay[i]! + row[i]!;
+    const r0 = connections.length > 0 ? rebookingOf(connections[0]!, g) : zero;
+    const r1 = connections.length > 1 ? rebookingOf(connections[1]!, g) : zero;
+    let r2 = connections.length > 2 ? rebookingOf(connections[2]!, g) : zero;
+    if (connections.length > 3) {
+      extra.set(r2);
+      for (let c = 3; c < connections.length; c++) {
+        const row = rebookingOf(connections[c]!, g);
+        for (let i = 0; i < n; i++) extra[i] = extra[i]! + row[i]!;
+      }
+      r2 = extra;
     }
     const last = arrivals[trip.lastFlight]!;
+    const slack = trip.deadlineSlackMinutes ?? Infinity;
     let sum = 0;
     let within = 0;
-    const slack = trip.deadlineSlackMinutes;
+    let byDeadline = 0;
+    let min = Infinity;
+    let max = -Infinity;
     for (let i = 0; i < n; i++) {
-      const rebooked = delay[i]!;
+      const rebooked = r0[i]! + r1[i]! + r2[i]!;
       missed[i] = rebooked > 0 ? 1 : 0;
       const x = rebooked + last[i]!;
       delay[i] = x;
       sum += x;
       within += x < ON_TIME_TOLERANCE_MINUTES ? 1 : 0;
+      byDeadline += x <= slack ? 1 : 0;
+      if (x < min) min = x;
+      if (x > max) max = x;
     }
-    let byDeadline = 0;
-    if (slack !== null) for (let i = 0; i < n; i++) byDeadline += delay[i]! <= slack ? 1 : 0;
-    const [p50, p90] = selectQuantiles(delay, [0.5, 0.9]);
-    return {
+    const quantiles = quantilesWithin(delay, min, max, TRIP_QUANTILES);
+    const result: TripSimulation = {
       simulations: n,
       missed,
       meanArrivalDelay: sum / n,
-      arrivalDelayP50: p50!,
-      arrivalDelayP90: p90!,
+      arrivalDelayP50: quantiles[0]!,
+      arrivalDelayP90: quantiles[1]!,
       pWithin15: within / n,
-      pByDeadline: slack === null ? null : byDeadline / n,
+      pByDeadline: trip.deadlineSlackMinutes === null ? null : byDeadline / n,
     };
+    results.set(key, result);
+    return result;
   });
+}
+
+const TRIP_QUANTILES = [0.5, 0.9] as const;
+
+function tripKey(trip: SimTrip): string {
+  let key = `${trip.lastFlight} ${trip.rebookGapMinutes} ${trip.deadlineSlackMinutes}`;
+  for (const c of trip.connections) key += ` ${c.inbound}>${c.outbound}:${c.slackMinutes}`;
+  return key;
 }
 
 /**
@@ -172,67 +200,89 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
  * @example selectQuantiles(Float64Array.of(3, 1, 2), [0.5]) // returns [2]
  */
 export function selectQuantiles(values: Float64Array, ps: readonly number[]): number[] {
-  const n = values.length;
-  if (n === 0) return ps.map(() => NaN);
   let min = Infinity;
   let max = -Infinity;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < values.length; i++) {
     const x = values[i]!;
     if (x < min) min = x;
     if (x > max) max = x;
   }
+  return quantilesWithin(values, min, max, ps);
+}
+
+// selectQuantiles with the values' minimum and maximum already known. Plain functions and
+// module state rather than closures: a closure made per call is a new call target each time,
+// and the optimised caller was thrown away for it (a deoptimisation per trip).
+function quantilesWithin(values: Float64Array, min: number, max: number, ps: readonly number[]): number[] {
+  const n = values.length;
+  const out = new Array<number>(ps.length);
+  if (n === 0) return out.fill(NaN);
   const scale = QUANTILE_BUCKETS / (max - min);
   if (!(max > min) || !Number.isFinite(scale) || !Number.isFinite(min) || !Number.isFinite(max)) {
     // All equal, or infinite values: select in a plain copy.
-    const work = Float64Array.from(values);
-    return ps.map((p) => interpolated(p, n, (r) => select(work, r, n)));
+    if (bucketWork.length < n) growBuckets(n);
+    const work = bucketWork.subarray(0, n);
+    work.set(values);
+    for (let k = 0; k < ps.length; k++) {
+      const h = (n - 1) * ps[k]!;
+      const i = Math.floor(h);
+      const lo = select(work, i, n);
+      out[k] = i + 1 >= n || h === i ? lo : lo + (h - i) * (select(work, i + 1, n) - lo);
+    }
+    return out;
   }
   // bucket(x) = floor((x - min) * scale), capped: non-decreasing in x, so the buckets are ordered.
   const counts = bucketCounts;
   counts.fill(0);
-  if (bucketWork.length < n) {
-    bucketWork = new Float64Array(n);
-    bucketOf = new Uint16Array(n);
-  }
-  const work = bucketWork;
+  if (bucketWork.length < n) growBuckets(n);
   const of = bucketOf;
   for (let i = 0; i < n; i++) {
     const b = Math.min(QUANTILE_BUCKETS - 1, Math.floor((values[i]! - min) * scale));
     of[i] = b;
     counts[b]!++;
   }
-  let gathered = -1;
-  let gatheredStart = 0;
-  let gatheredCount = 0;
-  const orderStatistic = (r: number): number => {
-    let b = 0;
-    let start = 0;
-    while (start + counts[b]! <= r) start += counts[b++]!;
-    if (b !== gathered) {
-      let m = 0;
-      for (let i = 0; i < n; i++) if (of[i] === b) work[m++] = values[i]!;
-      gathered = b;
-      gatheredStart = start;
-      gatheredCount = m;
-    }
-    return select(work, r - gatheredStart, gatheredCount);
-  };
-  return ps.map((p) => interpolated(p, n, orderStatistic));
+  gathered = -1;
+  for (let k = 0; k < ps.length; k++) {
+    const h = (n - 1) * ps[k]!;
+    const i = Math.floor(h);
+    const lo = orderStatistic(values, i);
+    out[k] = i + 1 >= n || h === i ? lo : lo + (h - i) * (orderStatistic(values, i + 1) - lo);
+  }
+  return out;
+}
+
+// The r-th smallest of values (0-based), from the bucket counts of quantilesWithin: the values
+// of its bucket are gathered once (kept for the next order statistic in the same bucket).
+function orderStatistic(values: Float64Array, r: number): number {
+  const counts = bucketCounts;
+  let b = 0;
+  let start = 0;
+  while (start + counts[b]! <= r) start += counts[b++]!;
+  if (b !== gathered) {
+    const of = bucketOf;
+    const work = bucketWork;
+    let m = 0;
+    for (let i = 0; i < values.length; i++) if (of[i] === b) work[m++] = values[i]!;
+    gathered = b;
+    gatheredStart = start;
+    gatheredCount = m;
+  }
+  return select(bucketWork, r - gatheredStart, gatheredCount);
+}
+
+function growBuckets(n: number): void {
+  bucketWork = new Float64Array(n);
+  bucketOf = new Uint16Array(n);
 }
 
 const QUANTILE_BUCKETS = 1024;
 const bucketCounts = new Int32Array(QUANTILE_BUCKETS);
 let bucketWork = new Float64Array(0);
 let bucketOf = new Uint16Array(0);
-
-// Definition 7: the order statistics floor(h) and floor(h) + 1 (0-based), h = (n - 1) p, linearly.
-function interpolated(p: number, n: number, orderStatistic: (r: number) => number): number {
-  const h = (n - 1) * p;
-  const i = Math.floor(h);
-  const lo = orderStatistic(i);
-  if (i + 1 >= n || h === i) return lo;
-  return lo + (h - i) * (orderStatistic(i + 1) - lo);
-}
+// The bucket whose values bucketWork holds (-1: none), where its order statistics start, how many.
+let gathered = -1;
+let gatheredStart = 0;
+let gatheredCount = 0;
 
 // Hoare's quickselect with a middle pivot on a[0..length): the k-th smallest.
 function select(a: Float64Array, k: number, length: number): number {
