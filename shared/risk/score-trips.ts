@@ -8,12 +8,13 @@ import type { PosteriorSource, RoutePosterior } from '../delay/predictive';
 import type { Leg, ParsedTrips, Problem, Trip } from '../itinerary/types';
 import { centralInterval, ConnectionPair, mean, minimumLayover } from './connection-probability';
 import { RouteTables } from './delay-table';
-import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct } from './mct';
+import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct, type ResolvedMct } from './mct';
 import { rankOptions } from './option-ranking';
 import { summariseGroup } from './group-summary';
 import { flightKey, simulateTrips, type SimConnection, type SimFlight, type SimTrip } from './trip-simulation';
 import {
   RISK_CAUTION,
+  type ConnectionType,
   type RiskFlag,
   type RiskWarning,
   type RouteEvidence,
@@ -56,6 +57,18 @@ export function resolveScoreSettings(options: ScoreOptions) {
 
 function checkGap(gap: number, what: string): void {
   if (!Number.isInteger(gap) || gap < 1 || gap > 2880) throw new RangeError(`${what} must be whole minutes from 1 to 2880, got ${gap}`);
+}
+
+interface RoutePair {
+  readonly type: ConnectionType;
+  readonly mct: ResolvedMct;
+  pair?: ConnectionPair;
+  inbound?: RouteEvidence;
+  outbound?: RouteEvidence;
+  /** P(make) and its interval by slack (layover - MCT). */
+  readonly summaries: Map<number, { pMake: number; interval: [number, number] }>;
+  /** Undefined until searched; null when the target is out of reach. */
+  minLayover?: number | null;
 }
 
 function evidence(tables: RouteTables): RouteEvidence {
@@ -105,19 +118,30 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
   for (const slot of routes.values()) draws = Math.min(draws, slot.posterior.drawCount);
   const tablesOf = (slot: RouteSlot): RouteTables => (slot.tables ??= new RouteTables(slot.posterior, draws));
 
-  const pairs = new Map<string, ConnectionPair>();
-  const pairOf = (inbound: Leg, outbound: Leg): ConnectionPair => {
+  // What every connection between the same two routes shares (travellers on the same flights
+  // and on different days alike): the connection type and MCT, the pair of route tables, its
+  // evidence, its P(make) summaries by slack and its minimum layover, each worked out once.
+  const routePairs = new Map<string, RoutePair>();
+  const routePairOf = (inbound: Leg, outbound: Leg): RoutePair => {
     const key = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}`;
-    let pair = pairs.get(key);
-    if (!pair) {
-      pair = new ConnectionPair(tablesOf(routeSlot(inbound, 'arrival')), tablesOf(routeSlot(outbound, 'departure')));
-      pairs.set(key, pair);
+    let info = routePairs.get(key);
+    if (!info) {
+      const type = connectionType(countryOf(inbound.from), countryOf(inbound.to), countryOf(outbound.from), countryOf(outbound.to));
+      info = { type, mct: resolveMct(rules, inbound.to, outbound.from, type, settings.transferMinutes), summaries: new Map() };
+      routePairs.set(key, info);
     }
-    return pair;
+    return info;
   };
-  // Per pair: P(make) summaries by slack and minimum layovers by MCT, each worked out once.
-  const summariesOf = new Map<ConnectionPair, Map<number, { pMake: number; interval: [number, number] }>>();
-  const minLayoversOf = new Map<ConnectionPair, Map<number, number | null>>();
+  const scoredPairOf = (info: RoutePair, inbound: Leg, outbound: Leg): ConnectionPair => {
+    if (!info.pair) {
+      const arrival = tablesOf(routeSlot(inbound, 'arrival'));
+      const departure = tablesOf(routeSlot(outbound, 'departure'));
+      info.pair = new ConnectionPair(arrival, departure);
+      info.inbound = evidence(arrival);
+      info.outbound = evidence(departure);
+    }
+    return info.pair;
+  };
 
   const unknownCountry = new Set<string>();
   const countryOf = (code: string): string => {
@@ -157,11 +181,50 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     trip.connections.forEach((c, k) => {
       const inbound = trip.legs[c.inboundLeg] as Leg;
       const outbound = trip.legs[c.inboundLeg + 1] as Leg;
-      const type = connectionType(countryOf(inbound.from), countryOf(inbound.to), countryOf(outbound.from), countryOf(outbound.to));
-      const mct = resolveMct(rules, c.airport, c.departAirport, type, settings.transferMinutes);
+      const info = routePairOf(inbound, outbound);
+      const { type, mct } = info;
       const flags: RiskFlag[] = [...c.flags];
-      const warnings: RiskWarning[] = [];
-      const base = {
+      if (!isScored(trip, k)) {
+        conns.push({
+          ...c,
+          inboundFlight: inbound.flight,
+          outboundFlight: outbound.flight,
+          connectionType: type,
+          mctMinutes: mct.mctMinutes,
+          mctSource: mct.source,
+          transferMinutes: mct.transferMinutes,
+          scored: false,
+          pMake: null,
+          pMakeInterval: null,
+          minLayoverMinutes: null,
+          marginMinutes: null,
+          flags,
+          warnings: [],
+          inbound: null,
+          outbound: null,
+        });
+        return;
+      }
+      const pair = scoredPairOf(info, inbound, outbound);
+      const slack = c.layoverMinutes - mct.mctMinutes;
+      const byDraw = pair.drawProbabilities(slack);
+      // Travellers on the same flights share a connection: its summary is worked out once.
+      let summary = info.summaries.get(slack);
+      if (!summary) {
+        summary = { pMake: mean(byDraw), interval: centralInterval(byDraw, settings.intervalLevel) };
+        info.summaries.set(slack, summary);
+      }
+      for (let t = 0; t < draws; t++) allByDraw[t] = allByDraw[t]! * byDraw[t]!;
+      const pMake = summary.pMake;
+      if (info.minLayover === undefined) info.minLayover = minimumLayover(pair, mct.mctMinutes, settings.target);
+      const minLayover = info.minLayover;
+      if (c.layoverMinutes < mct.mctMinutes && !flags.includes('below-mct')) flags.push('below-mct');
+      if (pMake < settings.target) flags.push('below-target');
+      if (minLayover === null) flags.push('target-unreachable');
+      const arrivalTables = pair.arrival;
+      const departureTables = pair.departure;
+      if (arrivalTables.posterior.pooling !== 'route' || departureTables.posterior.pooling !== 'route') flags.push('pooled-route');
+      conns.push({
         ...c,
         inboundFlight: inbound.flight,
         outboundFlight: outbound.flight,
@@ -169,49 +232,15 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
         mctMinutes: mct.mctMinutes,
         mctSource: mct.source,
         transferMinutes: mct.transferMinutes,
-      };
-      if (!isScored(trip, k)) {
-        conns.push({ ...base, scored: false, pMake: null, pMakeInterval: null, minLayoverMinutes: null, marginMinutes: null, flags, warnings, inbound: null, outbound: null });
-        return;
-      }
-      const pair = pairOf(inbound, outbound);
-      const slack = c.layoverMinutes - mct.mctMinutes;
-      const byDraw = pair.drawProbabilities(slack);
-      // Travellers on the same flights share a connection: its summary is worked out once.
-      let summaries = summariesOf.get(pair);
-      if (!summaries) summariesOf.set(pair, (summaries = new Map()));
-      let summary = summaries.get(slack);
-      if (!summary) {
-        summary = { pMake: mean(byDraw), interval: centralInterval(byDraw, settings.intervalLevel) };
-        summaries.set(slack, summary);
-      }
-      for (let t = 0; t < draws; t++) allByDraw[t] = (allByDraw[t] ?? 0) * (byDraw[t] ?? 0);
-      const pMake = summary.pMake;
-      let minLayovers = minLayoversOf.get(pair);
-      if (!minLayovers) minLayoversOf.set(pair, (minLayovers = new Map()));
-      let minLayover = minLayovers.get(mct.mctMinutes);
-      if (minLayover === undefined) {
-        minLayover = minimumLayover(pair, mct.mctMinutes, settings.target);
-        minLayovers.set(mct.mctMinutes, minLayover);
-      }
-      if (c.layoverMinutes < mct.mctMinutes && !flags.includes('below-mct')) flags.push('below-mct');
-      if (pMake < settings.target) flags.push('below-target');
-      if (minLayover === null) flags.push('target-unreachable');
-      const arrivalTables = pair.arrival;
-      const departureTables = pair.departure;
-      if (arrivalTables.posterior.pooling !== 'route' || departureTables.posterior.pooling !== 'route') flags.push('pooled-route');
-      warnings.push(...connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior));
-      conns.push({
-        ...base,
         scored: true,
         pMake,
         pMakeInterval: summary.interval,
         minLayoverMinutes: minLayover,
         marginMinutes: minLayover === null ? null : c.layoverMinutes - minLayover,
         flags,
-        warnings,
-        inbound: evidence(arrivalTables),
-        outbound: evidence(departureTables),
+        warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior),
+        inbound: info.inbound ?? null,
+        outbound: info.outbound ?? null,
       });
       simConns.push({ inbound: flightOf(inbound, 'arrival'), outbound: flightOf(outbound, 'departure'), slackMinutes: slack });
     });
