@@ -139,5 +139,6 @@ export function gumbelDistribution(mu: number, beta: number): DelayDistribution 
       out.fill(0);
       addGumbelGrid(out, lo, step, mu, beta, 1, true);
     },
+    addGrid: (lo, out, step, weight, density) => addGumbelGrid(out, lo, step, mu, beta, weight, density),
   };
 }

@@ -28,12 +28,17 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
   let scratch = new Float64Array(0);
   const grid = (lo: number, out: Float64Array, step: number | undefined, density: boolean) => {
     out.fill(0);
-    if (scratch.length < out.length) scratch = new Float64Array(out.length);
-    const part = scratch.subarray(0, out.length);
     for (let k = 0; k < comps.length; k++) {
       const w = ws[k]!;
       if (!(w > 0)) continue;
       const d = comps[k]!;
+      // A component that adds its own weighted values (a Gumbel) needs no scratch row.
+      if (d.addGrid) {
+        d.addGrid(lo, out, step ?? 1, w, density);
+        continue;
+      }
+      if (scratch.length < out.length) scratch = new Float64Array(out.length);
+      const part = scratch.subarray(0, out.length);
       if (density) d.pdfGrid!(lo, part, step);
       else d.cdfGrid!(lo, part, step);
       for (let i = 0; i < out.length; i++) out[i]! += w * part[i]!;

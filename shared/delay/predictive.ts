@@ -30,6 +30,11 @@ export interface GridEvaluation {
   cdfGrid?(lo: number, out: Float64Array, step?: number): void;
   pdfGrid?(lo: number, out: Float64Array, step?: number): void;
   /**
+   * weight * F (or weight * f when `density`) added into out at lo + i step, the same values
+   * as the grids above times weight: a mixture sums its components straight into its output.
+   */
+  addGrid?(lo: number, out: Float64Array, step: number, weight: number, density: boolean): void;
+  /**
    * Where the density jumps, as [x, J, K]: J = f(x+) - f(x-) and K = f'(x+) - f'(x-) (a
    * component whose support starts at x). The risk engine's density tables correct the
    * trapezoid for each (shared/risk/delay-table.ts), so such a density need not fall back to

@@ -116,4 +116,17 @@ describe('Gumbel on a grid (the risk tables use it) against @stdlib/stats-base-d
       expect(Math.abs(f[i]! - stdlibGumbel.pdf(x, mu, beta))).toBeLessThanOrEqual(1e-13 * Math.max(1, stdlibGumbel.pdf(x, mu, beta)));
     }
   });
+
+  it('addGrid adds weight times F or f onto what the row holds', () => {
+    const dist = gumbelDistribution(5, 12);
+    const F = new Float64Array(400).fill(0.25);
+    const f = new Float64Array(400).fill(0.25);
+    dist.addGrid!(-100, F, 1, 0.3, false);
+    dist.addGrid!(-100, f, 1, 0.3, true);
+    for (let i = 0; i < F.length; i++) {
+      const x = -100 + i;
+      expect(Math.abs(F[i]! - (0.25 + 0.3 * stdlibGumbel.cdf(x, 5, 12)))).toBeLessThanOrEqual(1e-13);
+      expect(Math.abs(f[i]! - (0.25 + 0.3 * stdlibGumbel.pdf(x, 5, 12)))).toBeLessThanOrEqual(1e-13);
+    }
+  });
 });

@@ -61,6 +61,20 @@ describe('mixtureDistribution on a grid', () => {
     }
   });
 
+  it('sums a component that only offers plain grids through a scratch row, to the same values', () => {
+    const plain = { ...gumbelDistribution(30, 45), addGrid: undefined };
+    const mixed = mixtureDistribution([gumbelDistribution(2, 11), plain], [0.9, 0.1]);
+    const F = new Float64Array(500);
+    const f = new Float64Array(500);
+    mixed.cdfGrid!(-100, F);
+    mixed.pdfGrid!(-100, f);
+    for (let i = 0; i < F.length; i++) {
+      const x = -100 + i;
+      expectClose(F[i]!, 0.9 * stdlibGumbel.cdf(x, 2, 11) + 0.1 * stdlibGumbel.cdf(x, 30, 45), 1e-13, `F(${x})`, 1e-15);
+      expectClose(f[i]!, 0.9 * stdlibGumbel.pdf(x, 2, 11) + 0.1 * stdlibGumbel.pdf(x, 30, 45), 1e-13, `f(${x})`, 1e-15);
+    }
+  });
+
   it('offers no grid when a component has none', () => {
     const mix = mixtureDistribution([gumbelDistribution(2, 11), normalDistribution(30, 45)], [0.9, 0.1]);
     expect(mix.cdfGrid).toBeUndefined();
