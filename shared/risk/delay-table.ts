@@ -111,49 +111,31 @@ export class DrawTable {
     readonly role: TableRole,
     hint?: readonly [number, number, number],
   ) {
-    const first = findFirst((x) => dist.cdf(x) > LOW_TAIL, SEARCH_LO, SEARCH_HI, hint?.[0]);
-    let lo = first - 1;
-    // One or two evaluations settle the usual cases without searching the whole range: a tail
-    // light enough to end on the grid is searched for on the grid only; a heavy tail whose median
-    // lies within a quarter span of lo is cut at lo + MAX_SPAN_MINUTES with lo kept, which is
-    // what the full searches below would find.
-    const quarter = Math.floor(MAX_SPAN_MINUTES / 4);
-    let light: number;
-    if (dist.survival(lo + MAX_SPAN_MINUTES) <= HIGH_TAIL) {
-      light = findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, lo + MAX_SPAN_MINUTES, hint?.[1]);
-    } else if (dist.cdf(lo + quarter) >= 0.5) {
-      light = SEARCH_HI;
-    } else {
-      light = findFirst((x) => dist.survival(x) <= HIGH_TAIL, lo, SEARCH_HI, hint?.[1]);
-      // Wider than the grid at both ends (a population draw for airports absent from the data
-      // can spread over days): keep at most a quarter of the span below the median, so the
-      // window holds the bulk of the mass and the far masses are lumped at its two ends, where
-      // F_A(m + d) is already near 0 or near 1, instead of starting days early and cutting
-      // the bulk off. A heavy upper tail alone keeps its natural start.
-      const median = findFirst((x) => dist.cdf(x) >= 0.5, lo, SEARCH_HI);
-      lo = Math.max(lo, median - quarter);
-    }
-    const hiCap = lo + MAX_SPAN_MINUTES;
-    let hi = Math.min(hiCap, light);
-    const core = Math.min(hi, findFirst((x) => dist.survival(x) <= CORE_TAIL, lo, hi, hint?.[2]));
+    // The work is split into small functions below: each is optimised on its own and quickly,
+    // and a rarely taken branch that deoptimises one of them does not send the whole table
+    // build back to unoptimised code, which boxes every double it computes.
+    const bounds = gridBounds(dist, hint);
+    const first = bounds[0]!;
+    const light = bounds[1]!;
+    const lo = bounds[2]!;
+    let hi = bounds[3]!;
+    const core = bounds[4]!;
     this.searched = [first, light, core];
-    const step = Math.max(1, Math.ceil((hi - core) / TAIL_NODES));
-    const tail: number[] = [];
-    // Steps grow geometrically from 2 minutes at the core's end up to `step`.
-    for (let x = core, h = 2; x < hi; x += h, h = Math.min(step, Math.ceil(h * 1.5))) tail.push(x);
+    let nodes = tailNodes(core, hi);
+    const tail = scratchTail;
     // The near tail ends at a node; past it the grid's end is moved onto the far tail's points.
-    let near = tail.findIndex((x) => x >= core + NEAR_TAIL_MINUTES);
-    if (near < 0) near = tail.length;
-    const top = near < tail.length ? tail[near]! : hi;
+    let near = 0;
+    while (near < nodes && tail[near]! < core + NEAR_TAIL_MINUTES) near++;
+    const top = near < nodes ? tail[near]! : hi;
     if (hi > top) hi = top + Math.ceil((hi - top) / FAR_STEP) * FAR_STEP;
-    tail.push(hi);
-    const nodes = tail.length;
+    if (tail.length <= nodes) growTail(nodes + 1);
+    scratchTail[nodes++] = hi;
     if (scratchSurvival.length < nodes) {
       scratchSurvival = new Float64Array(2 * nodes);
       scratchNodeF = new Float64Array(2 * nodes);
     }
     const tailSurvival = scratchSurvival;
-    for (let k = 0; k < nodes; k++) tailSurvival[k] = checked(dist.survival(tail[k]!), tail[k]!, 'survival');
+    tailSurvivals(dist, scratchTail, nodes, tailSurvival);
     const n = top - lo + 1;
     const coreIndex = core - lo;
     this.lo = lo;
@@ -171,122 +153,34 @@ export class DrawTable {
     this.coreLength = coreIndex + 1;
     this.highMass = tailSurvival[nodes - 1]!;
     if (role === 'cdf') {
-      const grid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
-      if (grid) {
-        grid.call(dist, lo, cdf.subarray(0, coreIndex + 1));
-        for (let i = 0; i <= coreIndex; i++) checked(cdf[i]!, lo + i, 'CDF');
-      } else for (let x = lo; x <= core; x++) cdf[x - lo] = checked(dist.cdf(x), x, 'CDF');
+      cdfCore(dist, lo, cdf.subarray(0, coreIndex + 1));
       this.lowMass = cdf[0]!;
       this.weight = EMPTY;
       this.tailIndex = EMPTY_INDEX;
       this.tailWeight = EMPTY;
     } else {
-      this.lowMass = checked(dist.cdf(lo), lo, 'CDF');
+      const lowMass = checked(dist.cdf(lo), lo, 'CDF');
+      this.lowMass = lowMass;
       const weight = store.subarray(n + farCount, n + farCount + coreIndex + 1);
       const tailWeight = store.subarray(n + farCount + coreIndex + 1);
       const tailIndex = intChunks.take(nodes - 1);
-      for (let k = 1; k < nodes; k++) tailIndex[k - 1] = tail[k]! - lo;
-      const grid = (dist as DelayDistribution & GridEvaluation).pdfGrid;
-      if (grid) {
-        grid.call(dist, lo, weight);
-        for (let i = 0; i <= coreIndex; i++) checkedDensity(weight[i]!, lo + i);
-      } else for (let x = lo; x <= core; x++) weight[x - lo] = checkedDensity(dist.pdf(x), x);
-      weight[coreIndex] = weight[coreIndex]! / 2;
-      // Euler-Maclaurin end correction of the core's trapezoid at its last point c:
-      // -(1/12) (f g)'(c), with f'(c) by a central difference and g'(c) ~ (g(c+2) - g(c-2)) / 4,
-      // carried by the weights at c - 2 and at c + 2 (the first tail node). Both stay positive.
-      let endCorrection = 0;
-      if (core - 2 > lo && core + 2 < hi) {
-        const fc = 2 * weight[coreIndex]!;
-        const slope = (dist.pdf(core + 1) - weight[coreIndex - 1]!) / 2;
-        weight[coreIndex] = weight[coreIndex]! - slope / 12;
-        weight[coreIndex - 2] = weight[coreIndex - 2]! + fc / 48;
-        endCorrection = fc / 48;
-      }
-      // A density that jumps by J at s (and its slope by K), between minutes k < s <= k + 1:
-      // by the Euler-Maclaurin formula for a sum that starts a fraction 1 - r past s
-      // (r = s - k; Bernoulli polynomials B1(1 - r) = 1/2 - r, B2(1 - r) = r^2 - r + 1/6), the
-      // trapezoid's sum exceeds the integral by -B1 J g(s) - (B2 / 2) (J g'(s) + K g(s)). With g
-      // linear between k and k + 1 that moves J ((1 - r)^2 / 2 - 1/12) + K B2 (1 - r) / 2 onto
-      // the weight at k and J (1/12 - r^2 / 2) + K B2 r / 2 onto the one at k + 1. A weight
-      // that this would make negative is left alone, and the mass check below then decides.
-      const jumps = (dist as DelayDistribution & GridEvaluation).densityJumps?.() ?? NO_JUMPS;
-      for (const [at, jump, slopeJump] of jumps) {
-        const k = Math.ceil(at) - 1;
-        const r = at - k;
-        const i = k - lo;
-        if (i < 0 || i + 1 >= coreIndex - 2 || !(jump > 0)) continue;
-        const b2 = r * r - r + 1 / 6;
-        const atK = weight[i]! + jump * ((1 - r) * (1 - r) / 2 - 1 / 12) + (slopeJump * b2 * (1 - r)) / 2;
-        const atNext = weight[i + 1]! + jump * (1 / 12 - (r * r) / 2) + (slopeJump * b2 * r) / 2;
-        if (atK >= 0 && atNext >= 0) {
-          weight[i] = atK;
-          weight[i + 1] = atNext;
-        }
-      }
+      for (let k = 1; k < nodes; k++) tailIndex[k - 1] = scratchTail[k]! - lo;
+      let endCorrection = trapezoidWeights(dist, lo, core, hi, weight);
+      correctJumps(dist, lo, coreIndex, weight);
       // The trapezoid is exact only for a smooth density. A density with a jump (a component
       // that starts at some minute) or a spike narrower than a minute integrates to the wrong
       // mass; then the core's weights become exact cell masses, F(x + 1/2) - F(x - 1/2), a
       // midpoint rule that is right to order h^2 whatever the density does.
       let coreMass = -endCorrection;
       for (let i = 0; i <= coreIndex; i++) coreMass += weight[i]!;
-      const exactCoreMass = 1 - tailSurvival[0]! - this.lowMass;
+      const exactCoreMass = 1 - tailSurvival[0]! - lowMass;
       if (Math.abs(coreMass - exactCoreMass) > CORE_MASS_TOLERANCE) {
         endCorrection = 0;
-        weight.fill(0);
-        // F at every half minute of the core: half[j] = F(lo + j / 2).
-        if (scratchHalf.length < 2 * coreIndex) scratchHalf = new Float64Array(4 * coreIndex);
-        const half = scratchHalf.subarray(0, 2 * coreIndex);
-        const halfGrid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
-        if (halfGrid) halfGrid.call(dist, lo, half, 0.5);
-        else for (let j = 0; j < half.length; j++) half[j] = dist.cdf(lo + j / 2);
-        let previous = this.lowMass;
-        cdf[0] = previous;
-        for (let i = 0; i < coreIndex; i++) {
-          const x = lo + i;
-          const upper = Math.max(previous, checked(half[2 * i + 1]!, x + 0.5, 'CDF'));
-          const mass = upper - previous;
-          if (i === 0) weight[0]! += mass;
-          else {
-            const mid = Math.min(upper, Math.max(previous, checked(half[2 * i]!, x, 'CDF')));
-            cdf[i] = mid;
-            // The cell's centre of mass from Simpson's rule on F over the cell, and its mass
-            // split between the two nearest minutes so that a g linear across them is exact
-            // (a spike at x + 0.4 is not counted at x).
-            const offset = mass > 0 ? 0.5 - (4 * (mid - previous) + mass) / (6 * mass) : 0;
-            const side = offset >= 0 ? 1 : -1;
-            const share = Math.min(0.5, Math.abs(offset));
-            weight[i]! += mass * (1 - share);
-            weight[i + side]! += mass * share;
-          }
-          previous = upper;
-        }
-        const coreF = 1 - tailSurvival[0]!;
-        weight[coreIndex]! += Math.max(0, coreF - previous);
-        cdf[coreIndex] = coreF;
+        exactCellWeights(dist, lo, coreIndex, weight, cdf, lowMass, 1 - tailSurvival[0]!);
       } else {
-        // The CDF on the core by the cumulative trapezoid rule, for simulation only.
-        let f = this.lowMass;
-        cdf[0] = f;
-        for (let i = 1; i <= coreIndex; i++) {
-          // weight[coreIndex] holds half the density there (the trapezoid's end).
-          f += (weight[i - 1]! + weight[i]! * (i === coreIndex ? 2 : 1)) / 2;
-          cdf[i] = Math.min(1, f);
-        }
+        cumulativeTrapezoid(weight, cdf, lowMass, coreIndex);
       }
-      // Each tail cell's exact mass goes to its two ends in the ratio that puts its centre of
-      // mass right for an exponential density across the cell (rate from the two survivals), so
-      // the rule is exact for a g linear across the cell.
-      for (let k = 0; k + 1 < nodes; k++) {
-        const s0 = tailSurvival[k]!;
-        const s1 = tailSurvival[k + 1]!;
-        const mass = Math.max(0, s0 - s1);
-        const decay = s0 > 0 && s1 > 0 ? Math.log(s0 / s1) : 0;
-        const theta = decay > 1e-6 ? 1 / decay - 1 / Math.expm1(decay) : 0.5;
-        if (k === 0) weight[coreIndex] = weight[coreIndex]! + mass * (1 - theta);
-        else tailWeight[k - 1] = tailWeight[k - 1]! + mass * (1 - theta);
-        tailWeight[k] = tailWeight[k]! + Math.max(0, mass * theta - (k === 0 ? endCorrection : 0));
-      }
+      tailCellWeights(tailSurvival, nodes, weight, coreIndex, tailWeight, endCorrection);
       this.weight = weight;
       this.tailIndex = tailIndex;
       this.tailWeight = tailWeight;
@@ -297,42 +191,13 @@ export class DrawTable {
     const nodeF = scratchNodeF;
     nodeF[0] = Math.max(cdf[coreIndex]!, 1 - tailSurvival[0]!);
     for (let k = 1; k < nodes; k++) nodeF[k] = Math.max(nodeF[k - 1]!, 1 - tailSurvival[k]!);
-    // The thin tail between nodes: log S linear, clamped to the nodes' F, so F keeps increasing.
-    // On the near tail S steps by a constant factor per minute; on the far tail per FAR_STEP.
-    for (let k = 0; k + 1 < nodes; k++) {
-      const x0 = tail[k]!;
-      const x1 = tail[k + 1]!;
-      const s0 = tailSurvival[k]!;
-      const s1 = tailSurvival[k + 1]!;
-      const f0 = nodeF[k]!;
-      const f1 = nodeF[k + 1]!;
-      const logRate = s0 > 0 && s1 > 0 ? Math.log(s1 / s0) / (x1 - x0) : NaN;
-      if (x0 < top) {
-        if (Number.isNaN(logRate)) {
-          for (let x = x0; x < x1; x++) cdf[x - lo] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (x - x0)) / (x1 - x0)));
-        } else {
-          const ratio = Math.exp(logRate);
-          let s = s0;
-          for (let x = x0; x < x1; x++, s *= ratio) cdf[x - lo] = Math.min(f1, Math.max(f0, 1 - s));
-        }
-      } else {
-        // Far points x0 <= top + j * FAR_STEP < x1, S stepped by a constant factor between them.
-        const j0 = Math.ceil((x0 - top) / FAR_STEP);
-        if (Number.isNaN(logRate)) {
-          for (let j = j0; top + j * FAR_STEP < x1; j++) far[j] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (top + j * FAR_STEP - x0)) / (x1 - x0)));
-        } else {
-          const ratio = Math.exp(logRate * FAR_STEP);
-          let s = s0 * Math.exp(logRate * (top + j0 * FAR_STEP - x0));
-          for (let j = j0; top + j * FAR_STEP < x1; j++, s *= ratio) far[j] = Math.min(f1, Math.max(f0, 1 - s));
-        }
-      }
-    }
+    fillThinTail(scratchTail, nodes, tailSurvival, nodeF, cdf, far, lo, top);
     // (With no thin tail at all, the last grid point keeps its own value, as F beyond it is exact.)
     if (nodes > 1) cdf[n - 1] = nodeF[near < nodes ? near : nodes - 1]!;
     if (farCount > 0) far[farCount - 1] = nodeF[nodes - 1]!;
     this.far = far;
     for (let k = 0; k < farNodes; k++) {
-      this.farNodes[3 * k] = tail[near + k]!;
+      this.farNodes[3 * k] = scratchTail[near + k]!;
       this.farNodes[3 * k + 1] = tailSurvival[near + k]!;
       this.farNodes[3 * k + 2] = nodeF[near + k]!;
     }
@@ -473,6 +338,8 @@ const EMPTY_INDEX = new Int32Array(0);
 let scratchSurvival = new Float64Array(128);
 let scratchNodeF = new Float64Array(128);
 let scratchHalf = new Float64Array(1024);
+let scratchTail = new Int32Array(128);
+const scratchBounds = new Int32Array(5);
 
 function checked(value: number, x: number, what: string): number {
   if (!(value >= 0 && value <= 1)) throw new RangeError(`delay distribution gives an invalid ${what} (${value}) at ${x} minutes`);
@@ -484,24 +351,246 @@ function checkedDensity(value: number, x: number): number {
   return value;
 }
 
+// The grid's searches, as [first, light, lo, hi, core] (see DrawTable): first, the first minute
+// with F > LOW_TAIL; light, the first with S <= HIGH_TAIL (or SEARCH_HI); core, the first with
+// S <= CORE_TAIL within [lo, hi]. Written into one reused array.
+function gridBounds(dist: DelayDistribution, hint: readonly [number, number, number] | undefined): Int32Array {
+  const first = findFirst(dist, CDF_ABOVE, LOW_TAIL, SEARCH_LO, SEARCH_HI, hint?.[0]);
+  let lo = first - 1;
+  // One or two evaluations settle the usual cases without searching the whole range: a tail
+  // light enough to end on the grid is searched for on the grid only; a heavy tail whose median
+  // lies within a quarter span of lo is cut at lo + MAX_SPAN_MINUTES with lo kept, which is
+  // what the full searches below would find.
+  const quarter = Math.floor(MAX_SPAN_MINUTES / 4);
+  let light: number;
+  if (dist.survival(lo + MAX_SPAN_MINUTES) <= HIGH_TAIL) {
+    light = findFirst(dist, SURVIVAL_AT_MOST, HIGH_TAIL, lo, lo + MAX_SPAN_MINUTES, hint?.[1]);
+  } else if (dist.cdf(lo + quarter) >= 0.5) {
+    light = SEARCH_HI;
+  } else {
+    light = findFirst(dist, SURVIVAL_AT_MOST, HIGH_TAIL, lo, SEARCH_HI, hint?.[1]);
+    // Wider than the grid at both ends (a population draw for airports absent from the data
+    // can spread over days): keep at most a quarter of the span below the median, so the
+    // window holds the bulk of the mass and the far masses are lumped at its two ends, where
+    // F_A(m + d) is already near 0 or near 1, instead of starting days early and cutting
+    // the bulk off. A heavy upper tail alone keeps its natural start.
+    const median = findFirst(dist, CDF_AT_LEAST, 0.5, lo, SEARCH_HI, undefined);
+    lo = Math.max(lo, median - quarter);
+  }
+  const hiCap = lo + MAX_SPAN_MINUTES;
+  const hi = Math.min(hiCap, light);
+  const core = Math.min(hi, findFirst(dist, SURVIVAL_AT_MOST, CORE_TAIL, lo, hi, hint?.[2]));
+  const out = scratchBounds;
+  out[0] = first;
+  out[1] = light;
+  out[2] = lo;
+  out[3] = hi;
+  out[4] = core;
+  return out;
+}
+
+// The thin tail's nodes from core towards hi (hi itself not included) into scratchTail; returns
+// how many. Steps grow geometrically from 2 minutes at the core's end up to (hi - core) / TAIL_NODES.
+function tailNodes(core: number, hi: number): number {
+  const step = Math.max(1, Math.ceil((hi - core) / TAIL_NODES));
+  let count = 0;
+  for (let x = core, h = 2; x < hi; x += h, h = Math.min(step, Math.ceil(h * 1.5))) {
+    if (count >= scratchTail.length) growTail(2 * count + 16);
+    scratchTail[count++] = x;
+  }
+  return count;
+}
+
+function growTail(length: number): void {
+  const grown = new Int32Array(length);
+  grown.set(scratchTail.subarray(0, Math.min(length, scratchTail.length)));
+  scratchTail = grown;
+}
+
+function tailSurvivals(dist: DelayDistribution, tail: Int32Array, nodes: number, out: Float64Array): void {
+  for (let k = 0; k < nodes; k++) out[k] = checked(dist.survival(tail[k]!), tail[k]!, 'survival');
+}
+
+// F at lo, lo + 1, ... into cdf (role 'cdf'), by the distribution's grid when it has one.
+function cdfCore(dist: DelayDistribution, lo: number, cdf: Float64Array): void {
+  const grid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
+  if (grid) {
+    grid.call(dist, lo, cdf);
+    for (let i = 0; i < cdf.length; i++) checked(cdf[i]!, lo + i, 'CDF');
+  } else for (let i = 0; i < cdf.length; i++) cdf[i] = checked(dist.cdf(lo + i), lo + i, 'CDF');
+}
+
+// The core's trapezoid weights (the density at each minute, halved at the core's end) into
+// weight, with the Euler-Maclaurin end correction; returns the correction's share carried by
+// the first tail node (subtracted there by tailCellWeights).
+function trapezoidWeights(dist: DelayDistribution, lo: number, core: number, hi: number, weight: Float64Array): number {
+  const coreIndex = core - lo;
+  const grid = (dist as DelayDistribution & GridEvaluation).pdfGrid;
+  if (grid) {
+    grid.call(dist, lo, weight);
+    for (let i = 0; i <= coreIndex; i++) checkedDensity(weight[i]!, lo + i);
+  } else for (let x = lo; x <= core; x++) weight[x - lo] = checkedDensity(dist.pdf(x), x);
+  weight[coreIndex] = weight[coreIndex]! / 2;
+  // Euler-Maclaurin end correction of the core's trapezoid at its last point c:
+  // -(1/12) (f g)'(c), with f'(c) by a central difference and g'(c) ~ (g(c+2) - g(c-2)) / 4,
+  // carried by the weights at c - 2 and at c + 2 (the first tail node). Both stay positive.
+  if (core - 2 > lo && core + 2 < hi) {
+    const fc = 2 * weight[coreIndex]!;
+    const slope = (dist.pdf(core + 1) - weight[coreIndex - 1]!) / 2;
+    weight[coreIndex] = weight[coreIndex]! - slope / 12;
+    weight[coreIndex - 2] = weight[coreIndex - 2]! + fc / 48;
+    return fc / 48;
+  }
+  return 0;
+}
+
+// A density that jumps by J at s (and its slope by K), between minutes k < s <= k + 1:
+// by the Euler-Maclaurin formula for a sum that starts a fraction 1 - r past s
+// (r = s - k; Bernoulli polynomials B1(1 - r) = 1/2 - r, B2(1 - r) = r^2 - r + 1/6), the
+// trapezoid's sum exceeds the integral by -B1 J g(s) - (B2 / 2) (J g'(s) + K g(s)). With g
+// linear between k and k + 1 that moves J ((1 - r)^2 / 2 - 1/12) + K B2 (1 - r) / 2 onto
+// the weight at k and J (1/12 - r^2 / 2) + K B2 r / 2 onto the one at k + 1. A weight
+// that this would make negative is left alone, and the mass check then decides.
+function correctJumps(dist: DelayDistribution, lo: number, coreIndex: number, weight: Float64Array): void {
+  const jumps = (dist as DelayDistribution & GridEvaluation).densityJumps?.() ?? NO_JUMPS;
+  for (const [at, jump, slopeJump] of jumps) {
+    const k = Math.ceil(at) - 1;
+    const r = at - k;
+    const i = k - lo;
+    if (i < 0 || i + 1 >= coreIndex - 2 || !(jump > 0)) continue;
+    const b2 = r * r - r + 1 / 6;
+    const atK = weight[i]! + jump * ((1 - r) * (1 - r) / 2 - 1 / 12) + (slopeJump * b2 * (1 - r)) / 2;
+    const atNext = weight[i + 1]! + jump * (1 / 12 - (r * r) / 2) + (slopeJump * b2 * r) / 2;
+    if (atK >= 0 && atNext >= 0) {
+      weight[i] = atK;
+      weight[i + 1] = atNext;
+    }
+  }
+}
+
+// The core's weights as exact cell masses from F at every half minute, and F on the core.
+function exactCellWeights(dist: DelayDistribution, lo: number, coreIndex: number, weight: Float64Array, cdf: Float64Array, lowMass: number, coreF: number): void {
+  weight.fill(0);
+  // F at every half minute of the core: half[j] = F(lo + j / 2).
+  if (scratchHalf.length < 2 * coreIndex) scratchHalf = new Float64Array(4 * coreIndex);
+  const half = scratchHalf.subarray(0, 2 * coreIndex);
+  const halfGrid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
+  if (halfGrid) halfGrid.call(dist, lo, half, 0.5);
+  else for (let j = 0; j < half.length; j++) half[j] = dist.cdf(lo + j / 2);
+  let previous = lowMass;
+  cdf[0] = previous;
+  for (let i = 0; i < coreIndex; i++) {
+    const x = lo + i;
+    const upper = Math.max(previous, checked(half[2 * i + 1]!, x + 0.5, 'CDF'));
+    const mass = upper - previous;
+    if (i === 0) weight[0]! += mass;
+    else {
+      const mid = Math.min(upper, Math.max(previous, checked(half[2 * i]!, x, 'CDF')));
+      cdf[i] = mid;
+      // The cell's centre of mass from Simpson's rule on F over the cell, and its mass
+      // split between the two nearest minutes so that a g linear across them is exact
+      // (a spike at x + 0.4 is not counted at x).
+      const offset = mass > 0 ? 0.5 - (4 * (mid - previous) + mass) / (6 * mass) : 0;
+      const side = offset >= 0 ? 1 : -1;
+      const share = Math.min(0.5, Math.abs(offset));
+      weight[i]! += mass * (1 - share);
+      weight[i + side]! += mass * share;
+    }
+    previous = upper;
+  }
+  weight[coreIndex]! += Math.max(0, coreF - previous);
+  cdf[coreIndex] = coreF;
+}
+
+// The CDF on the core by the cumulative trapezoid rule over the weights, for simulation only.
+function cumulativeTrapezoid(weight: Float64Array, cdf: Float64Array, lowMass: number, coreIndex: number): void {
+  let f = lowMass;
+  cdf[0] = f;
+  for (let i = 1; i <= coreIndex; i++) {
+    // weight[coreIndex] holds half the density there (the trapezoid's end).
+    f += (weight[i - 1]! + weight[i]! * (i === coreIndex ? 2 : 1)) / 2;
+    cdf[i] = Math.min(1, f);
+  }
+}
+
+// Each tail cell's exact mass goes to its two ends in the ratio that puts its centre of mass
+// right for an exponential density across the cell (rate from the two survivals), so the rule
+// is exact for a g linear across the cell.
+function tailCellWeights(tailSurvival: Float64Array, nodes: number, weight: Float64Array, coreIndex: number, tailWeight: Float64Array, endCorrection: number): void {
+  for (let k = 0; k + 1 < nodes; k++) {
+    const s0 = tailSurvival[k]!;
+    const s1 = tailSurvival[k + 1]!;
+    const mass = Math.max(0, s0 - s1);
+    const decay = s0 > 0 && s1 > 0 ? Math.log(s0 / s1) : 0;
+    const theta = decay > 1e-6 ? 1 / decay - 1 / Math.expm1(decay) : 0.5;
+    if (k === 0) weight[coreIndex] = weight[coreIndex]! + mass * (1 - theta);
+    else tailWeight[k - 1] = tailWeight[k - 1]! + mass * (1 - theta);
+    tailWeight[k] = tailWeight[k]! + Math.max(0, mass * theta - (k === 0 ? endCorrection : 0));
+  }
+}
+
+// The thin tail between nodes: log S linear, clamped to the nodes' F, so F keeps increasing.
+// On the near tail S steps by a constant factor per minute; on the far tail per FAR_STEP.
+function fillThinTail(tail: Int32Array, nodes: number, tailSurvival: Float64Array, nodeF: Float64Array, cdf: Float64Array, far: Float64Array, lo: number, top: number): void {
+  for (let k = 0; k + 1 < nodes; k++) {
+    const x0 = tail[k]!;
+    const x1 = tail[k + 1]!;
+    const s0 = tailSurvival[k]!;
+    const s1 = tailSurvival[k + 1]!;
+    const f0 = nodeF[k]!;
+    const f1 = nodeF[k + 1]!;
+    const logRate = s0 > 0 && s1 > 0 ? Math.log(s1 / s0) / (x1 - x0) : NaN;
+    if (x0 < top) {
+      if (Number.isNaN(logRate)) {
+        for (let x = x0; x < x1; x++) cdf[x - lo] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (x - x0)) / (x1 - x0)));
+      } else {
+        const ratio = Math.exp(logRate);
+        let s = s0;
+        for (let x = x0; x < x1; x++, s *= ratio) cdf[x - lo] = Math.min(f1, Math.max(f0, 1 - s));
+      }
+    } else {
+      // Far points x0 <= top + j * FAR_STEP < x1, S stepped by a constant factor between them.
+      const j0 = Math.ceil((x0 - top) / FAR_STEP);
+      if (Number.isNaN(logRate)) {
+        for (let j = j0; top + j * FAR_STEP < x1; j++) far[j] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (top + j * FAR_STEP - x0)) / (x1 - x0)));
+      } else {
+        const ratio = Math.exp(logRate * FAR_STEP);
+        let s = s0 * Math.exp(logRate * (top + j0 * FAR_STEP - x0));
+        for (let j = j0; top + j * FAR_STEP < x1; j++, s *= ratio) far[j] = Math.min(f1, Math.max(f0, 1 - s));
+      }
+    }
+  }
+}
+
+/** findFirst's predicates: F(x) > level, S(x) <= level, F(x) >= level (each monotone in x). */
+const CDF_ABOVE = 0;
+const SURVIVAL_AT_MOST = 1;
+const CDF_AT_LEAST = 2;
+
+function holds(dist: DelayDistribution, test: number, level: number, x: number): boolean {
+  if (test === SURVIVAL_AT_MOST) return dist.survival(x) <= level;
+  const f = dist.cdf(x);
+  return test === CDF_ABOVE ? f > level : f >= level;
+}
+
 /**
- * The first whole minute in [a0, b0] where a monotone predicate holds, b0 counting as holding.
- * With a guess, the bracket grows from it in doubling steps before it is halved: fewer
- * evaluations when the answer is near, the same answer.
+ * The first whole minute in [a0, b0] where the monotone predicate (test, level) holds, b0
+ * counting as holding. With a guess, the bracket grows from it in doubling steps before it is
+ * halved: fewer evaluations when the answer is near, the same answer. (A predicate code rather
+ * than a closure: a closure made per table is a new call target each time.)
  */
-function findFirst(holds: (x: number) => boolean, a0: number, b0: number, guess?: number): number {
-  const at = (x: number) => x >= b0 || holds(x);
+function findFirst(dist: DelayDistribution, test: number, level: number, a0: number, b0: number, guess: number | undefined): number {
   let a: number; // the predicate fails here (a0 - 1 stands for "below the range")
   let b: number; // and holds here
   if (guess === undefined || !(guess > a0 && guess < b0)) {
-    if (holds(a0)) return a0;
+    if (holds(dist, test, level, a0)) return a0;
     a = a0;
     b = b0;
-  } else if (at(guess)) {
+  } else if (guess >= b0 || holds(dist, test, level, guess)) {
     b = guess;
     a = a0 - 1;
     for (let step = 1; b - step >= a0; step *= 2) {
-      if (!at(b - step)) {
+      if (!(b - step >= b0 || holds(dist, test, level, b - step))) {
         a = b - step;
         break;
       }
@@ -511,7 +600,7 @@ function findFirst(holds: (x: number) => boolean, a0: number, b0: number, guess?
     a = guess;
     b = b0;
     for (let step = 1; a + step < b0; step *= 2) {
-      if (at(a + step)) {
+      if (a + step >= b0 || holds(dist, test, level, a + step)) {
         b = a + step;
         break;
       }
@@ -520,7 +609,7 @@ function findFirst(holds: (x: number) => boolean, a0: number, b0: number, guess?
   }
   while (b - a > 1) {
     const mid = Math.floor((a + b) / 2);
-    if (holds(mid)) b = mid;
+    if (holds(dist, test, level, mid)) b = mid;
     else a = mid;
   }
   return b;
