@@ -186,7 +186,11 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       const flags: RiskFlag[] = [...c.flags];
       if (!isScored(trip, k)) {
         conns.push({
-          ...c,
+          airport: c.airport,
+          departAirport: c.departAirport,
+          inboundLeg: c.inboundLeg,
+          layoverMinutes: c.layoverMinutes,
+          flags,
           inboundFlight: inbound.flight,
           outboundFlight: outbound.flight,
           connectionType: type,
@@ -198,7 +202,6 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
           pMakeInterval: null,
           minLayoverMinutes: null,
           marginMinutes: null,
-          flags,
           warnings: [],
           inbound: null,
           outbound: null,
@@ -224,8 +227,14 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       const arrivalTables = pair.arrival;
       const departureTables = pair.departure;
       if (arrivalTables.posterior.pooling !== 'route' || departureTables.posterior.pooling !== 'route') flags.push('pooled-route');
+      // Every field spelled out, in the parsed connection's order: a spread followed by more
+      // fields took V8's slow path for each of them, 3,000 times per 1,000 travellers.
       conns.push({
-        ...c,
+        airport: c.airport,
+        departAirport: c.departAirport,
+        inboundLeg: c.inboundLeg,
+        layoverMinutes: c.layoverMinutes,
+        flags,
         inboundFlight: inbound.flight,
         outboundFlight: outbound.flight,
         connectionType: type,
@@ -237,7 +246,6 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
         pMakeInterval: summary.interval,
         minLayoverMinutes: minLayover,
         marginMinutes: minLayover === null ? null : c.layoverMinutes - minLayover,
-        flags,
         warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior),
         inbound: info.inbound ?? null,
         outbound: info.outbound ?? null,
@@ -266,8 +274,14 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     const last = trip.legs[trip.legs.length - 1] as Leg;
     const hasDeadline = sim?.pByDeadline !== null && sim?.pByDeadline !== undefined;
     return {
-      ...trip,
+      id: trip.id,
+      traveler: trip.traveler,
+      trip: trip.trip,
+      option: trip.option,
+      legs: trip.legs,
       connections: scoredConnections[k] ?? [],
+      deadlineLocal: trip.deadlineLocal,
+      deadlineUtc: trip.deadlineUtc,
       rebookGapMinutes: simTrips[k]?.rebookGapMinutes ?? settings.rebookGap,
       pAllConnections: mean(allByDraw),
       pAllConnectionsInterval: centralInterval(allByDraw, settings.intervalLevel),
