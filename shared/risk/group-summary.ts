@@ -28,20 +28,22 @@ export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly Trip
     list.push(x.sim?.missed ?? new Uint8Array(simulations));
     tripsOf.set(w, list);
   }
+  // Travellers whose trips share one simulation (booked together) share its row of misses:
+  // each distinct row is added once, times the travellers it stands for.
   const counts = new Uint32Array(simulations);
-  const any = new Uint8Array(simulations);
+  const travellersOf = new Map<Uint8Array, number>();
   for (const list of tripsOf.values()) {
     let row = list[0]!;
     if (list.length > 1) {
-      any.set(row);
+      row = Uint8Array.from(row);
       for (let t = 1; t < list.length; t++) {
         const other = list[t]!;
-        for (let i = 0; i < simulations; i++) any[i] = any[i]! | other[i]!;
+        for (let i = 0; i < simulations; i++) row[i] = row[i]! | other[i]!;
       }
-      row = any;
     }
-    for (let i = 0; i < simulations; i++) counts[i] = counts[i]! + row[i]!;
+    travellersOf.set(row, (travellersOf.get(row) ?? 0) + 1);
   }
+  for (const [row, w] of travellersOf) for (let i = 0; i < simulations; i++) counts[i] = counts[i]! + w * row[i]!;
   const distribution = new Array<number>(travelers + 1).fill(0);
   let sum = 0;
   let sumSq = 0;

@@ -5,7 +5,11 @@
 // least as good on all three and strictly better on one.
 import type { ScoredTrip } from './types';
 
-type Unranked = Omit<ScoredTrip, 'optionGroup' | 'optionRank' | 'optionCount' | 'paretoOptimal'>;
+/** What ranking reads of a scored trip. */
+type Unranked = Pick<ScoredTrip, 'traveler' | 'trip' | 'option' | 'pOnTime' | 'expectedArrivalDelayMinutes' | 'travelMinutes'>;
+
+/** What ranking adds to a scored trip. */
+export type OptionRank = Pick<ScoredTrip, 'optionGroup' | 'optionRank' | 'optionCount' | 'paretoOptimal'>;
 
 /** The key shared by the options of one traveller's trip. */
 export function optionGroupKey(traveler: string, trip: string): string {
@@ -25,8 +29,11 @@ function compareOptions(a: Unranked, b: Unranked): number {
   return a.option < b.option ? -1 : a.option > b.option ? 1 : 0;
 }
 
-/** Adds optionGroup, optionRank (1 = best), optionCount and paretoOptimal; keeps the input order. */
-export function rankOptions(trips: readonly Unranked[]): ScoredTrip[] {
+/**
+ * optionGroup, optionRank (1 = best), optionCount and paretoOptimal of each trip, in the input
+ * order (the caller builds each scored trip once, with these fields in it).
+ */
+export function rankOptions(trips: readonly Unranked[]): OptionRank[] {
   const groups = new Map<string, Unranked[]>();
   for (const trip of trips) {
     const key = optionGroupKey(trip.traveler, trip.trip);
@@ -40,7 +47,6 @@ export function rankOptions(trips: readonly Unranked[]): ScoredTrip[] {
     const key = optionGroupKey(trip.traveler, trip.trip);
     const list = groups.get(key) ?? [trip];
     return {
-      ...trip,
       optionGroup: key,
       optionRank: rank.get(trip) ?? 1,
       optionCount: list.length,

@@ -267,12 +267,28 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
   const simFlights: SimFlight[] = flights;
   const sims = simulateTrips(simFlights, simTrips, settings.simulations, draws, settings.seed);
 
-  const unranked = parsed.trips.map((trip, k) => {
+  const metrics = parsed.trips.map((trip, k) => {
     const sim = sims[k];
-    const allByDraw = allMakeByDraw[k] as Float64Array;
     const first = trip.legs[0] as Leg;
     const last = trip.legs[trip.legs.length - 1] as Leg;
     const hasDeadline = sim?.pByDeadline !== null && sim?.pByDeadline !== undefined;
+    return {
+      traveler: trip.traveler,
+      trip: trip.trip,
+      option: trip.option,
+      hasDeadline,
+      pOnTime: hasDeadline ? (sim?.pByDeadline ?? NaN) : (sim?.pWithin15 ?? NaN),
+      expectedArrivalDelayMinutes: sim?.meanArrivalDelay ?? NaN,
+      travelMinutes: Math.round((last.arriveUtcMs - first.departUtcMs) / 60000),
+    };
+  });
+  const ranks = rankOptions(metrics);
+  // Each scored trip is one literal with every field spelled out (see the connections above).
+  const trips: ScoredTrip[] = parsed.trips.map((trip, k) => {
+    const sim = sims[k];
+    const allByDraw = allMakeByDraw[k] as Float64Array;
+    const m = metrics[k]!;
+    const rank = ranks[k]!;
     return {
       id: trip.id,
       traveler: trip.traveler,
@@ -285,15 +301,18 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       rebookGapMinutes: simTrips[k]?.rebookGapMinutes ?? settings.rebookGap,
       pAllConnections: mean(allByDraw),
       pAllConnectionsInterval: centralInterval(allByDraw, settings.intervalLevel),
-      expectedArrivalDelayMinutes: sim?.meanArrivalDelay ?? NaN,
+      expectedArrivalDelayMinutes: m.expectedArrivalDelayMinutes,
       arrivalDelayQuantilesMinutes: { p50: sim?.arrivalDelayP50 ?? NaN, p90: sim?.arrivalDelayP90 ?? NaN },
       pArriveByDeadline: sim?.pByDeadline ?? null,
-      pOnTime: hasDeadline ? (sim?.pByDeadline ?? NaN) : (sim?.pWithin15 ?? NaN),
-      onTimeBasis: hasDeadline ? ('deadline' as const) : ('within-15-minutes' as const),
-      travelMinutes: Math.round((last.arriveUtcMs - first.departUtcMs) / 60000),
+      pOnTime: m.pOnTime,
+      onTimeBasis: m.hasDeadline ? ('deadline' as const) : ('within-15-minutes' as const),
+      travelMinutes: m.travelMinutes,
+      optionGroup: rank.optionGroup,
+      optionRank: rank.optionRank,
+      optionCount: rank.optionCount,
+      paretoOptimal: rank.paretoOptimal,
     };
   });
-  const trips: ScoredTrip[] = rankOptions(unranked);
   const group = summariseGroup(trips, sims, settings.simulations);
   const overrides = rules.length;
   return {
