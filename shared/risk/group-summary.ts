@@ -43,7 +43,7 @@ export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly Trip
     }
     travellersOf.set(row, (travellersOf.get(row) ?? 0) + 1);
   }
-  for (const [row, w] of travellersOf) for (let i = 0; i < simulations; i++) counts[i] = counts[i]! + w * row[i]!;
+  for (const [row, w] of travellersOf) addRow(counts, row, w);
   const distribution = new Array<number>(travelers + 1).fill(0);
   let sum = 0;
   let sumSq = 0;
@@ -67,6 +67,12 @@ export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly Trip
     countDistribution,
     topConnections: topConnections(chosen.map((x) => x.trip)),
   };
+}
+
+// counts += w * row, in a function of its own: the loop is optimised after a few calls instead
+// of waiting for on-stack replacement in a function called once per scoring run.
+function addRow(counts: Uint32Array, row: Uint8Array, w: number): void {
+  for (let i = 0; i < counts.length; i++) counts[i] = counts[i]! + w * row[i]!;
 }
 
 function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {

@@ -110,14 +110,7 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
     const key = `${c.inbound} ${c.outbound} ${c.slackMinutes} ${g}`;
     let row = rebookings.get(key);
     if (!row) {
-      row = new Float64Array(n);
-      const a = arrivals[c.inbound]!;
-      const d = departures[c.outbound]!;
-      const slack = c.slackMinutes;
-      for (let i = 0; i < n; i++) {
-        const shortfall = a[i]! - d[i]! - slack;
-        if (shortfall > 0) row[i] = Math.ceil(shortfall / g) * g;
-      }
+      row = rebookingRow(arrivals[c.inbound]!, departures[c.outbound]!, c.slackMinutes, g, n);
       rebookings.set(key, row);
     }
     return row;
@@ -151,33 +144,16 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
       }
       r2 = extra;
     }
-    const last = arrivals[trip.lastFlight]!;
-    const slack = trip.deadlineSlackMinutes ?? Infinity;
-    let sum = 0;
-    let within = 0;
-    let byDeadline = 0;
-    let min = Infinity;
-    let max = -Infinity;
-    for (let i = 0; i < n; i++) {
-      const rebooked = r0[i]! + r1[i]! + r2[i]!;
-      missed[i] = rebooked > 0 ? 1 : 0;
-      const x = rebooked + last[i]!;
-      delay[i] = x;
-      sum += x;
-      within += x < ON_TIME_TOLERANCE_MINUTES ? 1 : 0;
-      byDeadline += x <= slack ? 1 : 0;
-      if (x < min) min = x;
-      if (x > max) max = x;
-    }
-    const quantiles = quantilesWithin(delay, min, max, TRIP_QUANTILES);
+    const totals = tripTotals(r0, r1, r2, arrivals[trip.lastFlight]!, trip.deadlineSlackMinutes ?? Infinity, missed, delay);
+    const quantiles = quantilesWithin(delay, totals[3]!, totals[4]!, TRIP_QUANTILES);
     const result: TripSimulation = {
       simulations: n,
       missed,
-      meanArrivalDelay: sum / n,
+      meanArrivalDelay: totals[0]! / n,
       arrivalDelayP50: quantiles[0]!,
       arrivalDelayP90: quantiles[1]!,
-      pWithin15: within / n,
-      pByDeadline: trip.deadlineSlackMinutes === null ? null : byDeadline / n,
+      pWithin15: totals[1]! / n,
+      pByDeadline: trip.deadlineSlackMinutes === null ? null : totals[2]! / n,
     };
     results.set(key, result);
     return result;
@@ -185,6 +161,50 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
 }
 
 const TRIP_QUANTILES = [0.5, 0.9] as const;
+
+// The rebooking delay of a connection in each simulation: whole gaps past the shortfall, 0 when made.
+function rebookingRow(a: Float64Array, d: Float64Array, slack: number, g: number, n: number): Float64Array {
+  const row = new Float64Array(n);
+  for (let i = 0; i < row.length; i++) {
+    const shortfall = a[i]! - d[i]! - slack;
+    if (shortfall > 0) row[i] = Math.ceil(shortfall / g) * g;
+  }
+  return row;
+}
+
+/**
+ * One trip's final delays (rebookings r0 + r1 + r2 plus the last flight's arrival delay) into
+ * delay, its misses into missed, and [sum, count under 15 minutes, count by the deadline slack,
+ * min, max] into a reused array. A function of its own, like the other loops over simulations:
+ * called per trip, it is optimised early rather than by on-stack replacement.
+ */
+function tripTotals(r0: Float64Array, r1: Float64Array, r2: Float64Array, last: Float64Array, slack: number, missed: Uint8Array, delay: Float64Array): Float64Array {
+  let sum = 0;
+  let within = 0;
+  let byDeadline = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 0; i < delay.length; i++) {
+    const rebooked = r0[i]! + r1[i]! + r2[i]!;
+    missed[i] = rebooked > 0 ? 1 : 0;
+    const x = rebooked + last[i]!;
+    delay[i] = x;
+    sum += x;
+    within += x < ON_TIME_TOLERANCE_MINUTES ? 1 : 0;
+    byDeadline += x <= slack ? 1 : 0;
+    if (x < min) min = x;
+    if (x > max) max = x;
+  }
+  const out = totalsScratch;
+  out[0] = sum;
+  out[1] = within;
+  out[2] = byDeadline;
+  out[3] = min;
+  out[4] = max;
+  return out;
+}
+
+const totalsScratch = new Float64Array(5);
 
 function tripKey(trip: SimTrip): string {
   let key = `${trip.lastFlight} ${trip.rebookGapMinutes} ${trip.deadlineSlackMinutes}`;
