@@ -45,12 +45,12 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
     }
   };
   const jumps = comps.some((d) => d.densityJumps) ? comps.flatMap((d, k) => (d.densityJumps?.() ?? []).map(([x, jump, slope]) => [x, ws[k]! * jump, ws[k]! * slope] as const)) : [];
+  // One literal with every field (absent ones undefined): spreading optional parts into it made
+  // each mixture object the slow way, and the risk tables make one per posterior draw.
   return {
-    ...(gridded && {
-      cdfGrid: (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, false),
-      pdfGrid: (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, true),
-    }),
-    ...(jumps.length > 0 && { densityJumps: () => jumps }),
+    cdfGrid: gridded ? (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, false) : undefined,
+    pdfGrid: gridded ? (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, true) : undefined,
+    densityJumps: jumps.length > 0 ? () => jumps : undefined,
     // Plain loops rather than a helper taking a closure: the risk tables call these thousands
     // of times per route, and a closure per call is garbage.
     cdf: (x) => {
