@@ -5,7 +5,7 @@
 // quadrature per posterior draw and are free of simulation noise; arrival delays, deadlines and
 // the group come from the seeded joint simulation in trip-simulation.ts.
 import type { PosteriorSource, RoutePosterior } from '../delay/predictive';
-import type { Leg, ParsedTrips, Problem, Trip } from '../itinerary/types';
+import type { Connection, Leg, ParsedTrips, Problem, Trip } from '../itinerary/types';
 import { centralInterval, ConnectionPair, mean, minimumLayover } from './connection-probability';
 import { RouteTables } from './delay-table';
 import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct, type ResolvedMct } from './mct';
@@ -69,6 +69,43 @@ interface RoutePair {
   readonly summaries: Map<number, { pMake: number; interval: [number, number] }>;
   /** Undefined until searched; null when the target is out of reach. */
   minLayover?: number | null;
+}
+
+/**
+ * A connection's record; `score` null for one that is not scored (a stopover). Every field is
+ * spelled out, in the parsed connection's order: a spread followed by more fields took V8's
+ * slow path for each of them, 3,000 times per 1,000 travellers.
+ */
+function connectionRecord(
+  c: Connection,
+  inbound: Leg,
+  outbound: Leg,
+  info: RoutePair,
+  flags: RiskFlag[],
+  score: { pMake: number; interval: [number, number]; minLayover: number | null; warnings: RiskWarning[] } | null,
+): ScoredConnection {
+  const minLayover = score ? score.minLayover : null;
+  return {
+    airport: c.airport,
+    departAirport: c.departAirport,
+    inboundLeg: c.inboundLeg,
+    layoverMinutes: c.layoverMinutes,
+    flags,
+    inboundFlight: inbound.flight,
+    outboundFlight: outbound.flight,
+    connectionType: info.type,
+    mctMinutes: info.mct.mctMinutes,
+    mctSource: info.mct.source,
+    transferMinutes: info.mct.transferMinutes,
+    scored: score !== null,
+    pMake: score ? score.pMake : null,
+    pMakeInterval: score ? score.interval : null,
+    minLayoverMinutes: minLayover,
+    marginMinutes: minLayover === null ? null : c.layoverMinutes - minLayover,
+    warnings: score ? score.warnings : [],
+    inbound: score ? (info.inbound ?? null) : null,
+    outbound: score ? (info.outbound ?? null) : null,
+  };
 }
 
 function evidence(tables: RouteTables): RouteEvidence {
@@ -182,30 +219,10 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       const inbound = trip.legs[c.inboundLeg] as Leg;
       const outbound = trip.legs[c.inboundLeg + 1] as Leg;
       const info = routePairOf(inbound, outbound);
-      const { type, mct } = info;
+      const { mct } = info;
       const flags: RiskFlag[] = [...c.flags];
       if (!isScored(trip, k)) {
-        conns.push({
-          airport: c.airport,
-          departAirport: c.departAirport,
-          inboundLeg: c.inboundLeg,
-          layoverMinutes: c.layoverMinutes,
-          flags,
-          inboundFlight: inbound.flight,
-          outboundFlight: outbound.flight,
-          connectionType: type,
-          mctMinutes: mct.mctMinutes,
-          mctSource: mct.source,
-          transferMinutes: mct.transferMinutes,
-          scored: false,
-          pMake: null,
-          pMakeInterval: null,
-          minLayoverMinutes: null,
-          marginMinutes: null,
-          warnings: [],
-          inbound: null,
-          outbound: null,
-        });
+        conns.push(connectionRecord(c, inbound, outbound, info, flags, null));
         return;
       }
       const pair = scoredPairOf(info, inbound, outbound);
@@ -227,29 +244,14 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       const arrivalTables = pair.arrival;
       const departureTables = pair.departure;
       if (arrivalTables.posterior.pooling !== 'route' || departureTables.posterior.pooling !== 'route') flags.push('pooled-route');
-      // Every field spelled out, in the parsed connection's order: a spread followed by more
-      // fields took V8's slow path for each of them, 3,000 times per 1,000 travellers.
-      conns.push({
-        airport: c.airport,
-        departAirport: c.departAirport,
-        inboundLeg: c.inboundLeg,
-        layoverMinutes: c.layoverMinutes,
-        flags,
-        inboundFlight: inbound.flight,
-        outboundFlight: outbound.flight,
-        connectionType: type,
-        mctMinutes: mct.mctMinutes,
-        mctSource: mct.source,
-        transferMinutes: mct.transferMinutes,
-        scored: true,
-        pMake,
-        pMakeInterval: summary.interval,
-        minLayoverMinutes: minLayover,
-        marginMinutes: minLayover === null ? null : c.layoverMinutes - minLayover,
-        warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior),
-        inbound: info.inbound ?? null,
-        outbound: info.outbound ?? null,
-      });
+      conns.push(
+        connectionRecord(c, inbound, outbound, info, flags, {
+          pMake,
+          interval: summary.interval,
+          minLayover,
+          warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior),
+        }),
+      );
       simConns.push({ inbound: flightOf(inbound, 'arrival'), outbound: flightOf(outbound, 'departure'), slackMinutes: slack });
     });
     const last = trip.legs[trip.legs.length - 1] as Leg;
