@@ -145,7 +145,7 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
       r2 = extra;
     }
     const totals = tripTotals(r0, r1, r2, arrivals[trip.lastFlight]!, trip.deadlineSlackMinutes ?? Infinity, missed, delay);
-    const quantiles = quantilesWithin(delay, totals[3]!, totals[4]!, TRIP_QUANTILES);
+    const quantiles = selectQuantiles(delay, TRIP_QUANTILES, totals[3]!, totals[4]!);
     const result: TripSimulation = {
       simulations: n,
       missed,
@@ -215,25 +215,14 @@ function tripKey(trip: SimTrip): string {
 /**
  * Quantiles (Hyndman & Fan definition 7) of values at each p, without sorting them all: the
  * values are counted into equal-width buckets between their minimum and maximum, and each order
- * statistic needed is selected among the values of its bucket only. NaN-free input assumed;
- * empty input gives NaN; values are not modified.
+ * statistic needed is selected among the values of its bucket only. A caller that already has
+ * the minimum and maximum passes them (the trip loop finds them in its own pass). NaN-free input
+ * assumed; empty input gives NaN; values are not modified. Plain functions and module state
+ * rather than closures: a closure made per call is a new call target each time, and the
+ * optimised caller was thrown away for it (a deoptimisation per trip).
  * @example selectQuantiles(Float64Array.of(3, 1, 2), [0.5]) // returns [2]
  */
-export function selectQuantiles(values: Float64Array, ps: readonly number[]): number[] {
-  let min = Infinity;
-  let max = -Infinity;
-  for (let i = 0; i < values.length; i++) {
-    const x = values[i]!;
-    if (x < min) min = x;
-    if (x > max) max = x;
-  }
-  return quantilesWithin(values, min, max, ps);
-}
-
-// selectQuantiles with the values' minimum and maximum already known. Plain functions and
-// module state rather than closures: a closure made per call is a new call target each time,
-// and the optimised caller was thrown away for it (a deoptimisation per trip).
-function quantilesWithin(values: Float64Array, min: number, max: number, ps: readonly number[]): number[] {
+export function selectQuantiles(values: Float64Array, ps: readonly number[], min = minimumOf(values), max = maximumOf(values)): number[] {
   const n = values.length;
   const out = new Array<number>(ps.length);
   if (n === 0) return out.fill(NaN);
@@ -271,7 +260,7 @@ function quantilesWithin(values: Float64Array, min: number, max: number, ps: rea
   return out;
 }
 
-// The r-th smallest of values (0-based), from the bucket counts of quantilesWithin: the values
+// The r-th smallest of values (0-based), from the bucket counts of selectQuantiles: the values
 // of its bucket are gathered once (kept for the next order statistic in the same bucket).
 function orderStatistic(values: Float64Array, r: number): number {
   const counts = bucketCounts;
@@ -288,6 +277,18 @@ function orderStatistic(values: Float64Array, r: number): number {
     gatheredCount = m;
   }
   return select(bucketWork, r - gatheredStart, gatheredCount);
+}
+
+function minimumOf(values: Float64Array): number {
+  let min = Infinity;
+  for (let i = 0; i < values.length; i++) if (values[i]! < min) min = values[i]!;
+  return min;
+}
+
+function maximumOf(values: Float64Array): number {
+  let max = -Infinity;
+  for (let i = 0; i < values.length; i++) if (values[i]! > max) max = values[i]!;
+  return max;
 }
 
 function growBuckets(n: number): void {

@@ -28,6 +28,9 @@ describe('selectQuantiles', () => {
     const ps = [0, 0.05, 0.1, 0.5, 0.9, 0.95, 0.999, 1];
     const got = selectQuantiles(values, ps);
     ps.forEach((p, k) => expect(got[k], `p=${p}`).toBe(reference(values, p)));
+    // The same with the range passed in, as the trip loop does.
+    const sorted = Float64Array.from(values).sort();
+    expect(selectQuantiles(values, ps, sorted[0], sorted[sorted.length - 1])).toEqual(got);
     expect(values).toEqual(before);
   });
 
