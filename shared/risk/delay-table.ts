@@ -121,14 +121,14 @@ export class DrawTable {
     let hi = bounds[3]!;
     const core = bounds[4]!;
     this.searched = [first, light, core];
+    // The tail nodes live in scratchTail (reused from table to table, grown as needed).
     let nodes = tailNodes(core, hi);
-    const tail = scratchTail;
     // The near tail ends at a node; past it the grid's end is moved onto the far tail's points.
     let near = 0;
-    while (near < nodes && tail[near]! < core + NEAR_TAIL_MINUTES) near++;
-    const top = near < nodes ? tail[near]! : hi;
+    while (near < nodes && scratchTail[near]! < core + NEAR_TAIL_MINUTES) near++;
+    const top = near < nodes ? scratchTail[near]! : hi;
     if (hi > top) hi = top + Math.ceil((hi - top) / FAR_STEP) * FAR_STEP;
-    if (tail.length <= nodes) growTail(nodes + 1);
+    if (scratchTail.length <= nodes) growTail(nodes + 1);
     scratchTail[nodes++] = hi;
     if (scratchSurvival.length < nodes) {
       scratchSurvival = new Float64Array(2 * nodes);
