@@ -43,10 +43,18 @@ export function gumbelCdf(x: number, mu: number, beta: number): number {
  * @example gumbelSurvival(10, 0, 1) // returns ~4.540e-5
  */
 export function gumbelSurvival(x: number, mu: number, beta: number): number {
-  if (Number.isNaN(x) || invalid(mu, beta)) return NaN;
-  if (x === Infinity) return 0;
-  if (x === -Infinity) return 1;
-  return -Math.expm1(-Math.exp(-(x - mu) / beta));
+  if (invalid(mu, beta)) return NaN;
+  return oneMinusExpNeg(Math.exp(-(x - mu) / beta));
+}
+
+/**
+ * 1 - e^{-t} for t >= 0 (NaN gives NaN, Infinity 1): below 1/32 by its Taylor series to t^9,
+ * whose remainder is under t^9 / 9! < 1e-19 relative, so the result is Math.expm1's to
+ * rounding; above, -expm1(-t). The right tail, where the risk tables ask most, costs no exp.
+ */
+export function oneMinusExpNeg(t: number): number {
+  if (!(t < 1 / 32)) return -Math.expm1(-t);
+  return t * (1 - (t / 2) * (1 - (t / 3) * (1 - (t / 4) * (1 - (t / 5) * (1 - (t / 6) * (1 - (t / 7) * (1 - (t / 8) * (1 - t / 9))))))));
 }
 
 /**
@@ -128,9 +136,13 @@ export function gumbelDistribution(mu: number, beta: number): DelayDistribution 
   if (invalid(mu, beta)) throw new RangeError(`Gumbel needs a finite location and a finite scale > 0, got (${mu}, ${beta})`);
   return {
     cdf: (x) => gumbelCdf(x, mu, beta),
-    survival: (x) => gumbelSurvival(x, mu, beta),
+    // Parameters checked above; NaN and the infinities come out right without special cases.
+    survival: (x) => oneMinusExpNeg(Math.exp(-(x - mu) / beta)),
     pdf: (x) => gumbelPdf(x, mu, beta),
     sample: (rng) => gumbelSample(rng, mu, beta),
+    sampleInto: (rng, out, start, stride, cap) => {
+      for (let i = start; i < out.length; i += stride) out[i] = Math.min(cap, mu - beta * Math.log(-Math.log(rng.uniform())));
+    },
     cdfGrid: (lo, out, step = 1) => {
       out.fill(0);
       addGumbelGrid(out, lo, step, mu, beta, 1, false);

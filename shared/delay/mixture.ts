@@ -80,5 +80,22 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
       }
       return comps[comps.length - 1]!.sample(rng);
     },
+    // As sample, in place: a component with its own sampleInto writes its draw into out[i]
+    // (a stride past the end stops it after one), so no draw is returned from a call.
+    sampleInto: (rng: Rng, out: Float64Array, start: number, stride: number, cap: number) => {
+      const last = comps.length - 1;
+      for (let i = start; i < out.length; i += stride) {
+        let u = rng.uniform();
+        let k = 0;
+        while (k < last) {
+          u -= ws[k]!;
+          if (u < 0) break;
+          k++;
+        }
+        const d = comps[k]!;
+        if (d.sampleInto) d.sampleInto(rng, out, i, out.length, cap);
+        else out[i] = Math.min(cap, d.sample(rng));
+      }
+    },
   };
 }

@@ -16,6 +16,13 @@ export interface DelayDistribution {
   /** log pdf(x), computed without underflow far in the tails (optional; scores use it when present). */
   logPdf?(x: number): number;
   sample(rng: Rng): number;
+  /**
+   * Optional: min(cap, sample(rng)) into out[start], out[start + stride], ..., the same values
+   * as calls of sample in that order. A double returned from a call that is not inlined is
+   * boxed on the heap; the trip simulation draws hundreds of thousands, so a distribution that
+   * can fill them in place says so here.
+   */
+  sampleInto?(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void;
 }
 
 /**

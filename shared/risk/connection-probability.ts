@@ -168,8 +168,7 @@ function searchMinimum(p: (layover: number) => number, guess: number, target: nu
     return false;
   };
   let x = Math.min(MAX_LAYOVER_MINUTES, Math.max(0, Number.isFinite(guess) ? guess : 0));
-  let px = p(x);
-  probe(x);
+  let px = probe(x) ? pGood : pBad;
   // Bracket: steps that double, or the secant through the last two probes where it points
   // further (at most 8 steps), away from the side already known.
   for (; good - bad > 1 && (bad < 0 || good > MAX_LAYOVER_MINUTES); step *= 2) {

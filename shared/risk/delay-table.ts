@@ -1,8 +1,9 @@
 // A route's posterior draws tabulated on a whole-minute grid: the CDF at every minute where the
-// delay has mass, and the inverse CDF for simulation.
+// delay has mass, or the density weights, and the inverse CDF the minimum-layover search starts from.
 //
 // Tabulating once per (route, kind, draw) is what makes the quadrature in connection-probability.ts
-// and the trip simulation cheap: both only ever look up F at whole minutes.
+// cheap: it only ever looks up F at whole minutes. (The trip simulation samples the draws'
+// distributions themselves, trip-simulation.ts.)
 import type { DelayDistribution, GridEvaluation, RoutePosterior } from '../delay/predictive';
 
 export type { GridEvaluation } from '../delay/predictive';
@@ -181,13 +182,13 @@ export class DrawTable {
         cumulativeTrapezoid(weight, cdf, lowMass, coreIndex);
       }
       tailCellWeights(tailSurvival, nodes, weight, coreIndex, tailWeight, endCorrection);
+      monotoneCore(cdf, coreIndex);
       this.weight = weight;
       this.tailIndex = tailIndex;
       this.tailWeight = tailWeight;
     }
-    // The core made monotone (rounding in a distribution's CDF could break it), then F at the
-    // tail nodes: exact, never below what comes before.
-    for (let i = 1; i <= coreIndex; i++) if (cdf[i]! < cdf[i - 1]!) cdf[i] = cdf[i - 1]!;
+    // The core is monotone by now (see cdfCore and monotoneCore); F at the tail nodes is exact,
+    // never below what comes before.
     const nodeF = scratchNodeF;
     nodeF[0] = Math.max(cdf[coreIndex]!, 1 - tailSurvival[0]!);
     for (let k = 1; k < nodes; k++) nodeF[k] = Math.max(nodeF[k - 1]!, 1 - tailSurvival[k]!);
@@ -215,30 +216,6 @@ export class DrawTable {
     const cdf = this.cdf;
     if (i < cdf.length) return cdf[i]!;
     return farCdf(this.far, this.top, this.hi, this.beyondHi, x);
-  }
-
-  /**
-   * inverse(u[i]), capped at cap, into out[i] for i = start, start + stride, ... (the trip
-   * simulation's sweeps). The usual case, u within the whole-minute core, is searched here, so
-   * that its result goes straight into out: a double returned from a call that is not inlined
-   * is boxed on the heap.
-   */
-  inverseInto(u: Float64Array, out: Float64Array, start: number, stride: number, cap: number): void {
-    const cdf = this.cdf;
-    const last = this.coreLength - 1;
-    const lowest = cdf[0]!;
-    const coreTop = cdf[last]!;
-    for (let i = start; i < u.length; i += stride) {
-      const v = u[i]!;
-      if (!(v > lowest && v <= coreTop)) {
-        out[i] = Math.min(cap, this.inverse(v));
-        continue;
-      }
-      const a = largestBelow(cdf, v, last);
-      const fa = cdf[a]!;
-      const fb = cdf[a + 1]!;
-      out[i] = Math.min(cap, this.lo + a + (fb > fa ? (v - fa) / (fb - fa) : 0));
-    }
   }
 
   /**
@@ -411,13 +388,24 @@ function tailSurvivals(dist: DelayDistribution, tail: Int32Array, nodes: number,
   for (let k = 0; k < nodes; k++) out[k] = checked(dist.survival(tail[k]!), tail[k]!, 'survival');
 }
 
-// F at lo, lo + 1, ... into cdf (role 'cdf'), by the distribution's grid when it has one.
+// F at lo, lo + 1, ... into cdf (role 'cdf'), by the distribution's grid when it has one,
+// checked and made monotone in the same pass (rounding in a distribution's CDF could break it).
 function cdfCore(dist: DelayDistribution, lo: number, cdf: Float64Array): void {
   const grid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
-  if (grid) {
-    grid.call(dist, lo, cdf);
-    for (let i = 0; i < cdf.length; i++) checked(cdf[i]!, lo + i, 'CDF');
-  } else for (let i = 0; i < cdf.length; i++) cdf[i] = checked(dist.cdf(lo + i), lo + i, 'CDF');
+  if (grid) grid.call(dist, lo, cdf);
+  else for (let i = 0; i < cdf.length; i++) cdf[i] = dist.cdf(lo + i);
+  let previous = 0;
+  for (let i = 0; i < cdf.length; i++) {
+    const f = cdf[i]!;
+    if (!(f >= 0 && f <= 1)) checked(f, lo + i, 'CDF');
+    if (f < previous) cdf[i] = previous;
+    else previous = f;
+  }
+}
+
+// cdf[0..coreIndex] made monotone (role 'density': the core's F from cell masses or the trapezoid).
+function monotoneCore(cdf: Float64Array, coreIndex: number): void {
+  for (let i = 1; i <= coreIndex; i++) if (cdf[i]! < cdf[i - 1]!) cdf[i] = cdf[i - 1]!;
 }
 
 // The core's trapezoid weights (the density at each minute, halved at the core's end) into
@@ -502,7 +490,7 @@ function exactCellWeights(dist: DelayDistribution, lo: number, coreIndex: number
   cdf[coreIndex] = coreF;
 }
 
-// The CDF on the core by the cumulative trapezoid rule over the weights, for simulation only.
+// The CDF on the core by the cumulative trapezoid rule over the weights (for the inverse).
 function cumulativeTrapezoid(weight: Float64Array, cdf: Float64Array, lowMass: number, coreIndex: number): void {
   let f = lowMass;
   cdf[0] = f;
@@ -667,6 +655,11 @@ export class RouteTables {
   /** The route's own draw index behind joint draw t. */
   drawIndex(t: number): number {
     return Math.floor(((t + 0.5) * this.posterior.drawCount) / this.draws);
+  }
+
+  /** The distribution of joint draw t, without tabulating it (the simulation samples from it). */
+  distribution(t: number): DelayDistribution {
+    return this.posterior.draw(this.drawIndex(t));
   }
 
   /**

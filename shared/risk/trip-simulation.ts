@@ -6,6 +6,7 @@
 // its own seeded stream, so a flight's delays do not depend on what else is in the input: that
 // gives common random numbers when comparing options.
 import { createRng, type Rng } from '../inference/rng';
+import type { DelayDistribution } from '../delay/predictive';
 import type { Leg } from '../itinerary/types';
 import type { RouteTables } from './delay-table';
 
@@ -88,15 +89,13 @@ export function flightStream(seed: number, key: string, kind: 'arrival' | 'depar
 export function simulateTrips(flights: readonly SimFlight[], trips: readonly SimTrip[], simulations: number, draws: number, seed: number): TripSimulation[] {
   if (!Number.isInteger(simulations) || simulations < 1) throw new RangeError(`simulations must be a whole number >= 1, got ${simulations}`);
   const n = simulations;
-  // Each flight's delays in every simulation, drawn in one sweep of its own stream: the uniforms
-  // in stream order, then inverted table by table (simulation i uses joint draw i mod draws), so
-  // each table is read while it is in cache.
-  const uniforms = new Float64Array(n);
-  const sweep = (tables: RouteTables | undefined, stream: Rng): Float64Array => {
+  // Each flight's delays in every simulation, drawn in one sweep of its own stream: simulation i
+  // uses joint draw t = i mod draws, and its delay is sampled from that draw's distribution
+  // itself (exact, tails and all; the tables are for the quadrature only). The sweep goes draw
+  // by draw, so each loop calls one distribution's sampler.
+  const sweep = (tables: RouteTables, stream: Rng): Float64Array => {
     const row = new Float64Array(n);
-    if (!tables) return row;
-    for (let i = 0; i < n; i++) uniforms[i] = stream.uniform();
-    for (let t = 0; t < Math.min(draws, n); t++) tables.table(t).inverseInto(uniforms, row, t, draws, MAX_SIMULATED_DELAY_MINUTES);
+    for (let t = 0; t < Math.min(draws, n); t++) sampleInto(tables.distribution(t), stream, row, t, draws, MAX_SIMULATED_DELAY_MINUTES);
     return row;
   };
   const none = new Float64Array(0);
@@ -161,6 +160,13 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
 }
 
 const TRIP_QUANTILES = [0.5, 0.9] as const;
+
+// Samples of dist, capped at cap, into out[start], out[start + stride], ...: in place when the
+// distribution can (DelayDistribution.sampleInto).
+function sampleInto(dist: DelayDistribution, stream: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
+  if (dist.sampleInto) dist.sampleInto(stream, out, start, stride, cap);
+  else for (let i = start; i < out.length; i += stride) out[i] = Math.min(cap, dist.sample(stream));
+}
 
 // The rebooking delay of a connection in each simulation: whole gaps past the shortfall, 0 when made.
 function rebookingRow(a: Float64Array, d: Float64Array, slack: number, g: number, n: number): Float64Array {

@@ -5,7 +5,7 @@
 // the whole distribution (departure delays derived from arrival delays add the en-route
 // recovery offset).
 import type { Rng } from '../../inference/rng';
-import { addGumbelGrid, gumbelLogPdf, gumbelPdf, gumbelSample } from '../gumbel';
+import { addGumbelGrid, gumbelLogPdf, gumbelPdf, gumbelSample, oneMinusExpNeg } from '../gumbel';
 import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
 import type { DelayDistribution } from '../predictive';
@@ -112,10 +112,8 @@ function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean
 
 function componentSurvival(c: Component, x: number): number {
   if (c.kind === 'gumbel') {
-    // gumbelSurvival without its parameter checks (a bundle's are validated), and with
-    // 1 - e^{-t} by its series where t is small (the far right tail, where the tables ask most).
-    const t = Math.exp(-(x - c.location) / c.scale);
-    return t < 1e-5 ? t * (1 - t * (0.5 - t / 6)) : -Math.expm1(-t);
+    // gumbelSurvival without its parameter checks (a bundle's are validated).
+    return oneMinusExpNeg(Math.exp(-(x - c.location) / c.scale));
   }
   if (c.kind === 't') return studentTSurvival(x, c.location, c.scale, c.shape);
   return lomaxSurvival(c, x);
@@ -254,5 +252,24 @@ export class TailMixtureDistribution implements DelayDistribution {
       if (u < 0) return componentSample(this.parts[i]!, rng);
     }
     return componentSample(this.parts[this.parts.length - 1]!, rng);
+  }
+
+  /** As sample, in place (see DelayDistribution.sampleInto). */
+  sampleInto(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
+    const parts = this.parts;
+    const last = parts.length - 1;
+    for (let i = start; i < out.length; i += stride) {
+      let u = rng.uniform();
+      let k = 0;
+      while (k < last) {
+        u -= parts[k]!.weight;
+        if (u < 0) break;
+        k++;
+      }
+      const c = parts[k]!;
+      if (c.kind === 'gumbel') out[i] = Math.min(cap, c.location - c.scale * Math.log(-Math.log(rng.uniform())));
+      else if (c.kind === 'lomax') out[i] = Math.min(cap, c.location + c.scale * Math.expm1(-Math.log(rng.uniform()) / c.shape));
+      else out[i] = Math.min(cap, componentSample(c, rng));
+    }
   }
 }

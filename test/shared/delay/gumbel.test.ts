@@ -3,7 +3,7 @@
 // variance pi^2 beta^2 / 6.
 import { describe, expect, it } from 'vitest';
 import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
-import { EULER_GAMMA, gumbelCdf, gumbelDistribution, gumbelLogPdf, gumbelMean, gumbelPdf, gumbelQuantile, gumbelSample, gumbelSurvival, gumbelVariance } from '../../../shared/delay/gumbel';
+import { EULER_GAMMA, gumbelCdf, gumbelDistribution, gumbelLogPdf, gumbelMean, gumbelPdf, gumbelQuantile, gumbelSample, gumbelSurvival, gumbelVariance, oneMinusExpNeg } from '../../../shared/delay/gumbel';
 import { createRng } from '../../../shared/inference/rng';
 import { expectClose } from './close';
 
@@ -31,6 +31,22 @@ describe('Gumbel against @stdlib/stats-base-dists-gumbel', () => {
     const exact = Math.exp(-z) - Math.exp(-2 * z) / 2;
     expectClose(gumbelSurvival(z, 0, 1), exact, 1e-12, 'survival(40)');
     expect(1 - stdlibGumbel.cdf(z, 0, 1)).toBe(0);
+  });
+});
+
+describe('oneMinusExpNeg, the survival of a Gumbel given t = e^{-z}', () => {
+  it('agrees with Math.expm1 to within an ulp on both sides of its series threshold, and with 1 - stdlib cdf in the bulk', () => {
+    const rng = createRng(8);
+    for (let k = 0; k < 20_000; k++) {
+      // Log-uniform t from 1e-300 to 1: the series (t < 1/32) and expm1 both.
+      const t = Math.exp(-690 * rng.uniform() ** 2);
+      const exact = -Math.expm1(-t);
+      expectClose(oneMinusExpNeg(t), exact, 2.3e-16, `1 - e^-${t}`);
+    }
+    for (const z of [-2, 0, 1, 3, 3.4657, 3.4658, 6]) expectClose(gumbelSurvival(z, 0, 1), 1 - stdlibGumbel.cdf(z, 0, 1), 1e-9, `survival(${z})`, 1e-15);
+    expect(oneMinusExpNeg(0)).toBe(0);
+    expect(oneMinusExpNeg(Infinity)).toBe(1);
+    expect(oneMinusExpNeg(Number.NaN)).toBeNaN();
   });
 });
 
@@ -97,6 +113,15 @@ describe('Gumbel edge-case contract', () => {
     expect(d.survival(100)).toBe(gumbelSurvival(100, 3, 9));
     expect(d.pdf(-2)).toBe(gumbelPdf(-2, 3, 9));
     expect(d.sample(createRng(4))).toBe(gumbelSample(createRng(4), 3, 9));
+  });
+});
+
+describe('gumbelDistribution sampled in place', () => {
+  it('gives the draws of gumbelSample in turn, capped, at every stride-th place only', () => {
+    const out = new Float64Array(1000).fill(-1);
+    gumbelDistribution(5, 20).sampleInto!(createRng(12), out, 0, 4, 40);
+    const rng = createRng(12);
+    for (let i = 0; i < out.length; i++) expect(out[i]).toBe(i % 4 === 0 ? Math.min(40, gumbelSample(rng, 5, 20)) : -1);
   });
 });
 

@@ -31,6 +31,15 @@ describe('mixtureDistribution', () => {
     expect(Math.abs(high / n - 0.75)).toBeLessThan(4 * Math.sqrt((0.75 * 0.25) / n));
   });
 
+  it('samples in place the values that sample() gives in turn, capped, at every stride-th place only', () => {
+    // Gumbel components sample in place; the Normal one through its sample().
+    const out = new Float64Array(2000).fill(-1);
+    mix.sampleInto!(createRng(4), out, 1, 2, 60);
+    const rng = createRng(4);
+    for (let i = 0; i < out.length; i++) expect(out[i]).toBe(i % 2 === 1 ? Math.min(60, mix.sample(rng)) : -1);
+    expect(out.some((v) => v === 60)).toBe(true);
+  });
+
   it('rejects empty component lists and weights that are negative, non-finite or do not sum to 1', () => {
     const g = gumbelDistribution(0, 1);
     expect(() => mixtureDistribution([], [])).toThrow(/at least one/);

@@ -438,17 +438,3 @@ describe('draws wider than the grid', () => {
     for (const m of [0, 30, 90]) closeTo(drawMakeProbability(a, d, m), wideReference(a, d, m), 2e-3, `m=${m}`);
   });
 });
-
-describe('DrawTable.inverseInto', () => {
-  it('gives inverse(u) capped, at every stride-th place, also in the tails and outside the grid', () => {
-    const eta = [2, Math.log(11), 30, Math.log(45), -1.5, Math.log(300), Math.log(2.5), -1];
-    const table = new DrawTable(new TailMixtureDistribution('gumbel-gumbel-lomax', eta, 4, 0), 'cdf');
-    const rng = createRng(7);
-    const u = Float64Array.from({ length: 500 }, (_, i) => (i < 6 ? [1e-14, table.cdf[0]!, table.cdf[table.coreLength - 1]!, 0.999999, 1 - 1e-12, 0.5][i]! : rng.uniform()));
-    const out = new Float64Array(u.length).fill(-1);
-    table.inverseInto(u, out, 1, 3, 2880);
-    for (let i = 0; i < u.length; i++) expect(out[i]).toBe(i % 3 === 1 ? Math.min(2880, table.inverse(u[i]!)) : -1);
-    table.inverseInto(u, out, 0, 1, 2880);
-    for (let i = 0; i < u.length; i++) expect(out[i]).toBe(Math.min(2880, table.inverse(u[i]!)));
-  });
-});

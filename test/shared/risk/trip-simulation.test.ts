@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { sortedQuantile } from '../../../shared/risk/connection-probability';
-import { selectQuantiles } from '../../../shared/risk/trip-simulation';
+import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
+import { gumbelDistribution } from '../../../shared/delay/gumbel';
+import type { DelayDistribution, RoutePosterior } from '../../../shared/delay/predictive';
+import { RouteTables } from '../../../shared/risk/delay-table';
+import { MAX_SIMULATED_DELAY_MINUTES, selectQuantiles, simulateTrips, type SimFlight, type SimTrip } from '../../../shared/risk/trip-simulation';
 import { createRng } from '../../../shared/inference/rng';
 
 // Reference: Hyndman & Fan (1996) definition 7 (R's quantile type 7) on a fully sorted copy.
@@ -36,5 +40,59 @@ describe('selectQuantiles', () => {
 
   it('gives NaN for no values', () => {
     expect(selectQuantiles(new Float64Array(0), [0.5])).toEqual([Number.NaN]);
+  });
+});
+
+// Reference: @stdlib/stats-base-dists-gumbel for the distribution a flight's simulated delays
+// must follow; the binomial standard error sqrt(p (1 - p) / n) for the Monte Carlo tolerance.
+describe('simulateTrips', () => {
+  const posterior = (draw: (s: number) => DelayDistribution): RoutePosterior => ({
+    origin: 'MAD', destination: 'LIS', kind: 'arrival', pooling: 'route', flights: 100, derived: false, drawCount: 4, draw,
+  });
+  const oneFlight = (dist: (s: number) => DelayDistribution, n: number) => {
+    const tables = new RouteTables(posterior(dist), 4);
+    const flights: SimFlight[] = [{ key: 'TP1027 2026-06-01 MAD-LIS', arrival: tables }];
+    const trips: SimTrip[] = [{ connections: [], lastFlight: 0, rebookGapMinutes: 180, deadlineSlackMinutes: 30 }];
+    return simulateTrips(flights, trips, n, 4, 7)[0]!;
+  };
+
+  it('draws each flight\'s delays from its posterior draws\' distributions', () => {
+    const n = 40_000;
+    // Four draws with different locations: the delays follow their equal-weight mixture.
+    const mus = [-6, -2, 3, 9];
+    const sim = oneFlight((s) => gumbelDistribution(mus[s]!, 11), n);
+    const mixCdf = (x: number) => mus.reduce((sum, mu) => sum + stdlibGumbel.cdf(x, mu, 11), 0) / mus.length;
+    for (const [got, p] of [[sim.pWithin15, mixCdf(15 - 1e-9)], [sim.pByDeadline!, mixCdf(30)]] as const) {
+      expect(Math.abs(got - p)).toBeLessThan(4 * Math.sqrt((p * (1 - p)) / n));
+    }
+    // The median: the mixture's CDF there is 1/2 within Monte Carlo error.
+    expect(Math.abs(mixCdf(sim.arrivalDelayP50) - 0.5)).toBeLessThan(4 * Math.sqrt(0.25 / n));
+    expect(Math.abs(mixCdf(sim.arrivalDelayP90) - 0.9)).toBeLessThan(4 * Math.sqrt(0.09 / n));
+  });
+
+  it('keeps a tail too heavy for the risk tables (samples beyond two days are capped at two days)', () => {
+    const n = 20_000;
+    // A Gumbel with a scale of 2 days: S(2 days) = 1 - exp(-e^-1), far beyond any table's grid.
+    const sim = oneFlight(() => gumbelDistribution(0, MAX_SIMULATED_DELAY_MINUTES), n);
+    const p = stdlibGumbel.cdf(MAX_SIMULATED_DELAY_MINUTES, 0, MAX_SIMULATED_DELAY_MINUTES);
+    // Every delay is at most the cap; the 90% quantile sits on it when over 10% lies beyond.
+    expect(1 - p).toBeGreaterThan(0.1);
+    expect(sim.arrivalDelayP90).toBe(MAX_SIMULATED_DELAY_MINUTES);
+    expect(Math.abs(sim.pByDeadline! - stdlibGumbel.cdf(30, 0, MAX_SIMULATED_DELAY_MINUTES))).toBeLessThan(0.02);
+  });
+
+  it('gives the same delays for a flight whatever else is simulated (common random numbers)', () => {
+    const tables = new RouteTables(posterior((s) => gumbelDistribution(s, 12)), 4);
+    const other = new RouteTables(posterior((s) => gumbelDistribution(40 + s, 30)), 4);
+    const trip: SimTrip = { connections: [], lastFlight: 0, rebookGapMinutes: 180, deadlineSlackMinutes: null };
+    const alone = simulateTrips([{ key: 'TP1027 2026-06-01 MAD-LIS', arrival: tables }], [trip], 500, 4, 3)[0]!;
+    const withOther = simulateTrips(
+      [{ key: 'IB3100 2026-06-01 MAD-LIS', arrival: other }, { key: 'TP1027 2026-06-01 MAD-LIS', arrival: tables }],
+      [{ ...trip, lastFlight: 1 }, { ...trip, lastFlight: 0 }],
+      500, 4, 3,
+    );
+    // Trip 0 ends on TP1027, listed second this time.
+    expect(withOther[0]).toEqual(alone);
+    expect(withOther[1]!.meanArrivalDelay).not.toBe(alone.meanArrivalDelay);
   });
 });

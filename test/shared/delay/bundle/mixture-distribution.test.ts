@@ -99,3 +99,14 @@ describe('TailMixtureDistribution on a grid, extreme draws', () => {
     F.forEach((v, i) => expect(Math.abs(v - dist.cdf(-300 + i))).toBeLessThanOrEqual(1e-12));
   });
 });
+
+describe.each(FAMILIES)('TailMixtureDistribution %s sampled in place', (family) => {
+  it('gives the values of sample() called in turn, capped, at every stride-th place only', () => {
+    const dist = new TailMixtureDistribution(family, randomEta(family, 11), 4, 2);
+    const out = new Float64Array(3001).fill(-1);
+    dist.sampleInto(createRng(9), out, 2, 3, 30);
+    const rng = createRng(9);
+    for (let i = 0; i < out.length; i++) expect(out[i]).toBe(i % 3 === 2 ? Math.min(30, dist.sample(rng)) : -1);
+    expect(out.some((v) => v === 30)).toBe(true);
+  });
+});
