@@ -43,12 +43,18 @@ class Xoshiro128 implements Rng {
   }
 
   private nextUint32(): number {
+    return this.nextBits() >>> 0;
+  }
+
+  // The next 32 bits as a signed integer: a small integer to V8, where a uint32 of 2^31 or more
+  // returned from a call that is not inlined is boxed on the heap (two per uniform).
+  private nextBits(): number {
     const s = this.s;
     const s0 = s[0]!;
     const s1 = s[1]!;
     const s2 = s[2]!;
     const s3 = s[3]!;
-    const result = Math.imul(rotl(Math.imul(s1, 5), 7), 9) >>> 0;
+    const result = Math.imul(rotl(Math.imul(s1, 5), 7), 9);
     const t = s1 << 9;
     const c = s2 ^ s0;
     const d = s3 ^ s1;
@@ -61,8 +67,8 @@ class Xoshiro128 implements Rng {
 
   uniform(): number {
     // 53 random bits mapped into (0, 1), with the +0.5 keeping both ends open.
-    const hi = this.nextUint32() >>> 5;
-    const lo = this.nextUint32() >>> 6;
+    const hi = this.nextBits() >>> 5;
+    const lo = this.nextBits() >>> 6;
     return (hi * 67108864 + lo + 0.5) / 9007199254740992;
   }
 
