@@ -140,6 +140,7 @@ export function gumbelDistribution(mu: number, beta: number): DelayDistribution 
     survival: (x) => oneMinusExpNeg(Math.exp(-(x - mu) / beta)),
     pdf: (x) => gumbelPdf(x, mu, beta),
     sample: (rng) => gumbelSample(rng, mu, beta),
+    // gumbelSample's formula inline: called, it returns each draw boxed when V8 does not inline it.
     sampleInto: (rng, out, start, stride, cap) => {
       for (let i = start; i < out.length; i += stride) out[i] = Math.min(cap, mu - beta * Math.log(-Math.log(rng.uniform())));
     },

