@@ -71,31 +71,31 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
       for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.pdf(x);
       return s;
     },
-    sample: (rng: Rng) => {
-      // Choose a component by its weight, then draw from it.
-      let u = rng.uniform();
-      for (let k = 0; k < comps.length - 1; k++) {
-        u -= ws[k]!;
-        if (u < 0) return comps[k]!.sample(rng);
-      }
-      return comps[comps.length - 1]!.sample(rng);
-    },
+    // Choose a component by its weight, then draw from it.
+    sample: (rng: Rng) => comps[componentIndex(ws, rng.uniform())]!.sample(rng),
     // As sample, in place: a component with its own sampleInto writes its draw into out[i]
     // (a stride past the end stops it after one), so no draw is returned from a call.
     sampleInto: (rng: Rng, out: Float64Array, start: number, stride: number, cap: number) => {
-      const last = comps.length - 1;
       for (let i = start; i < out.length; i += stride) {
-        let u = rng.uniform();
-        let k = 0;
-        while (k < last) {
-          u -= ws[k]!;
-          if (u < 0) break;
-          k++;
-        }
-        const d = comps[k]!;
+        const d = comps[componentIndex(ws, rng.uniform())]!;
         if (d.sampleInto) d.sampleInto(rng, out, i, out.length, cap);
         else out[i] = Math.min(cap, d.sample(rng));
       }
     },
   };
+}
+
+/**
+ * The component that uniform u picks for the given weights: the first k where u falls below
+ * w[0] + ... + w[k] (subtracted in turn), the last when rounding leaves u above them all.
+ */
+export function componentIndex(weights: ArrayLike<number>, u: number): number {
+  const last = weights.length - 1;
+  let k = 0;
+  while (k < last) {
+    u -= weights[k]!;
+    if (u < 0) break;
+    k++;
+  }
+  return k;
 }
