@@ -101,15 +101,16 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
   const none = new Float64Array(0);
   const arrivals = flights.map((f) => (f.arrival ? sweep(f.arrival, flightStream(seed, f.key, 'arrival')) : none));
   const departures = flights.map((f) => (f.departure ? sweep(f.departure, flightStream(seed, f.key, 'departure')) : none));
-  // A connection's rebooking delay in every simulation depends only on its two flights, its
-  // slack and the rebook gap, and travellers share connections: each is worked out once
-  // (0 where the connection is made).
-  const rebookings = new Map<string, Float64Array>();
-  const rebookingOf = (c: SimConnection, g: number): Float64Array => {
+  // A connection's rebooking in every simulation depends only on its two flights, its slack and
+  // the rebook gap, and travellers share connections: each is worked out once, as the number of
+  // gaps waited (0 where the connection is made). Counts rather than minutes: a quarter of the
+  // memory, and a trip's rebooking delay is its counts' sum times its one gap.
+  const rebookings = new Map<string, Uint16Array>();
+  const rebookingOf = (c: SimConnection, g: number): Uint16Array => {
     const key = `${c.inbound} ${c.outbound} ${c.slackMinutes} ${g}`;
     let row = rebookings.get(key);
     if (!row) {
-      row = rebookingRow(arrivals[c.inbound]!, departures[c.outbound]!, c.slackMinutes, g, n);
+      row = rebookingCounts(arrivals[c.inbound]!, departures[c.outbound]!, c.slackMinutes, g, n);
       rebookings.set(key, row);
     }
     return row;
@@ -118,8 +119,8 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
   // Trips with the same connections, final flight, rebook gap and deadline (travellers booked
   // together) have the same outcomes in every simulation: they share one result.
   const delay = new Float64Array(n);
-  const zero = new Float64Array(n);
-  const extra = new Float64Array(n);
+  const zero = new Uint16Array(n);
+  const extra = new Uint16Array(n);
   const missedAll = new Uint8Array(trips.length * n);
   const results = new Map<string, TripSimulation>();
   return trips.map((trip) => {
@@ -128,9 +129,9 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
     if (known) return known;
     const missed = missedAll.subarray(results.size * n, (results.size + 1) * n);
     const g = trip.rebookGapMinutes;
-    // The rebooking delays of its connections, summed: at least one gap (>= 1 minute) exactly
-    // where some connection was missed. Up to three rows are read in the loop below; a longer
-    // trip's later rows are summed into one first (the sums are whole multiples of gaps, exact).
+    // The gaps waited at its connections, summed: at least one exactly where some connection was
+    // missed. Up to three rows are read in the loop below; a longer trip's later rows are summed
+    // into one first (capped, as each count is; see rebookingCounts).
     const connections = trip.connections;
     const r0 = connections.length > 0 ? rebookingOf(connections[0]!, g) : zero;
     const r1 = connections.length > 1 ? rebookingOf(connections[1]!, g) : zero;
@@ -139,11 +140,11 @@ export function simulateTrips(flights: readonly SimFlight[], trips: readonly Sim
       extra.set(r2);
       for (let c = 3; c < connections.length; c++) {
         const row = rebookingOf(connections[c]!, g);
-        for (let i = 0; i < n; i++) extra[i] = extra[i]! + row[i]!;
+        for (let i = 0; i < n; i++) extra[i] = Math.min(MAX_GAP_COUNT, extra[i]! + row[i]!);
       }
       r2 = extra;
     }
-    const totals = tripTotals(r0, r1, r2, arrivals[trip.lastFlight]!, trip.deadlineSlackMinutes ?? Infinity, missed, delay);
+    const totals = tripTotals(r0, r1, r2, g, arrivals[trip.lastFlight]!, trip.deadlineSlackMinutes ?? Infinity, missed, delay);
     const quantiles = selectQuantiles(delay, TRIP_QUANTILES, totals[3]!, totals[4]!);
     const result: TripSimulation = {
       simulations: n,
@@ -168,32 +169,39 @@ function sampleInto(dist: DelayDistribution, stream: Rng, out: Float64Array, sta
   else for (let i = start; i < out.length; i += stride) out[i] = Math.min(cap, dist.sample(stream));
 }
 
-// The rebooking delay of a connection in each simulation: whole gaps past the shortfall, 0 when made.
-function rebookingRow(a: Float64Array, d: Float64Array, slack: number, g: number, n: number): Float64Array {
-  const row = new Float64Array(n);
+/**
+ * Most gaps one connection's row (or a long trip's summed rows) counts. A shortfall is at most
+ * MAX_SIMULATED_DELAY_MINUTES plus an early departure plus the MCT, far below this many
+ * one-minute gaps; the cap only keeps a pathological input from wrapping around.
+ */
+const MAX_GAP_COUNT = 0xffff;
+
+// The gaps a connection's traveller waits in each simulation: ceil(shortfall / gap), 0 when made.
+function rebookingCounts(a: Float64Array, d: Float64Array, slack: number, g: number, n: number): Uint16Array {
+  const row = new Uint16Array(n);
   for (let i = 0; i < row.length; i++) {
     const shortfall = a[i]! - d[i]! - slack;
-    if (shortfall > 0) row[i] = Math.ceil(shortfall / g) * g;
+    if (shortfall > 0) row[i] = Math.min(MAX_GAP_COUNT, Math.ceil(shortfall / g));
   }
   return row;
 }
 
 /**
- * One trip's final delays (rebookings r0 + r1 + r2 plus the last flight's arrival delay) into
+ * One trip's final delays ((r0 + r1 + r2) gaps of g minutes plus the last flight's arrival delay) into
  * delay, its misses into missed, and [sum, count under 15 minutes, count by the deadline slack,
  * min, max] into a reused array. A function of its own, like the other loops over simulations:
  * called per trip, it is optimised early rather than by on-stack replacement.
  */
-function tripTotals(r0: Float64Array, r1: Float64Array, r2: Float64Array, last: Float64Array, slack: number, missed: Uint8Array, delay: Float64Array): Float64Array {
+function tripTotals(r0: Uint16Array, r1: Uint16Array, r2: Uint16Array, g: number, last: Float64Array, slack: number, missed: Uint8Array, delay: Float64Array): Float64Array {
   let sum = 0;
   let within = 0;
   let byDeadline = 0;
   let min = Infinity;
   let max = -Infinity;
   for (let i = 0; i < delay.length; i++) {
-    const rebooked = r0[i]! + r1[i]! + r2[i]!;
-    missed[i] = rebooked > 0 ? 1 : 0;
-    const x = rebooked + last[i]!;
+    const gaps = r0[i]! + r1[i]! + r2[i]!;
+    missed[i] = gaps > 0 ? 1 : 0;
+    const x = gaps * g + last[i]!;
     delay[i] = x;
     sum += x;
     within += x < ON_TIME_TOLERANCE_MINUTES ? 1 : 0;

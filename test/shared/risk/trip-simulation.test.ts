@@ -4,7 +4,7 @@ import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
 import { gumbelDistribution } from '../../../shared/delay/gumbel';
 import type { DelayDistribution, RoutePosterior } from '../../../shared/delay/predictive';
 import { RouteTables } from '../../../shared/risk/delay-table';
-import { MAX_SIMULATED_DELAY_MINUTES, selectQuantiles, simulateTrips, type SimFlight, type SimTrip } from '../../../shared/risk/trip-simulation';
+import { flightStream, MAX_SIMULATED_DELAY_MINUTES, selectQuantiles, simulateTrips, type SimFlight, type SimTrip } from '../../../shared/risk/trip-simulation';
 import { createRng } from '../../../shared/inference/rng';
 
 // Reference: Hyndman & Fan (1996) definition 7 (R's quantile type 7) on a fully sorted copy.
@@ -94,5 +94,61 @@ describe('simulateTrips', () => {
     // Trip 0 ends on TP1027, listed second this time.
     expect(withOther[0]).toEqual(alone);
     expect(withOther[1]!.meanArrivalDelay).not.toBe(alone.meanArrivalDelay);
+  });
+
+  it('rebooks each missed connection of a long trip onto the first departure it reaches, gaps summed over the trip', () => {
+    // Five legs (four connections, so the rows past the third are summed), with tight slacks
+    // and a 7-minute gap so that many simulations miss one or more connections. The reference
+    // replays each flight's stream by hand (simulation i uses draw i mod 4, in draw order) and
+    // applies the rule of the issue: a missed connection costs ceil(shortfall / gap) gaps.
+    const n = 3000;
+    const draws = 4;
+    const seed = 11;
+    const route = (kind: 'arrival' | 'departure', mu: number, beta: number) =>
+      new RouteTables({ ...posterior((s) => gumbelDistribution(mu + 2 * s, beta + s)), kind, drawCount: draws }, draws);
+    const keys = ['TP1 2026-06-01 OPO-LIS', 'TP2 2026-06-01 LIS-MAD', 'IB3 2026-06-01 MAD-BCN', 'VY4 2026-06-01 BCN-PMI', 'VY5 2026-06-01 PMI-IBZ'];
+    const flights: SimFlight[] = keys.map((key, k) => ({
+      key,
+      arrival: route('arrival', 5 * k - 4, 9 + k),
+      departure: k > 0 ? route('departure', k - 2, 6 + k) : undefined,
+    }));
+    const slacks = [10, -5, 25, 0];
+    const gap = 7;
+    const trip: SimTrip = {
+      connections: slacks.map((slackMinutes, k) => ({ inbound: k, outbound: k + 1, slackMinutes })),
+      lastFlight: 4,
+      rebookGapMinutes: gap,
+      deadlineSlackMinutes: 40,
+    };
+    const sim = simulateTrips(flights, [trip], n, draws, seed)[0]!;
+
+    const replay = (tables: RouteTables, kind: 'arrival' | 'departure', key: string) => {
+      const stream = flightStream(seed, key, kind);
+      const row = new Float64Array(n);
+      for (let t = 0; t < draws; t++) for (let i = t; i < n; i += draws) row[i] = Math.min(MAX_SIMULATED_DELAY_MINUTES, tables.distribution(t).sample(stream));
+      return row;
+    };
+    const arrivals = flights.map((f) => replay(f.arrival!, 'arrival', f.key));
+    const departures = flights.map((f) => (f.departure ? replay(f.departure, 'departure', f.key) : new Float64Array(n)));
+    const delays = new Float64Array(n);
+    let missedCount = 0;
+    for (let i = 0; i < n; i++) {
+      let rebooked = 0;
+      slacks.forEach((slack, k) => {
+        const shortfall = arrivals[k]![i]! - departures[k + 1]![i]! - slack;
+        if (shortfall > 0) rebooked += Math.ceil(shortfall / gap) * gap;
+      });
+      delays[i] = rebooked + arrivals[4]![i]!;
+      expect(sim.missed[i], `simulation ${i}`).toBe(rebooked > 0 ? 1 : 0);
+      missedCount += rebooked > 0 ? 1 : 0;
+    }
+    // Enough of both outcomes for the check to mean something.
+    expect(missedCount).toBeGreaterThan(n / 10);
+    expect(missedCount).toBeLessThan(n);
+    expect(sim.meanArrivalDelay).toBeCloseTo(delays.reduce((a, b) => a + b, 0) / n, 9);
+    expect(sim.pWithin15).toBe(delays.filter((x) => x < 15).length / n);
+    expect(sim.pByDeadline).toBe(delays.filter((x) => x <= 40).length / n);
+    expect(sim.arrivalDelayP50).toBe(reference(delays, 0.5));
+    expect(sim.arrivalDelayP90).toBe(reference(delays, 0.9));
   });
 });
