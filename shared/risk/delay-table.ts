@@ -134,9 +134,11 @@ export class DrawTable {
     if (scratchSurvival.length < nodes) {
       scratchSurvival = new Float64Array(2 * nodes);
       scratchNodeF = new Float64Array(2 * nodes);
+      scratchDecay = new Float64Array(2 * nodes);
     }
     const tailSurvival = scratchSurvival;
     tailSurvivals(dist, scratchTail, nodes, tailSurvival);
+    tailDecays(tailSurvival, nodes, scratchDecay);
     const n = top - lo + 1;
     const coreIndex = core - lo;
     this.lo = lo;
@@ -181,7 +183,7 @@ export class DrawTable {
       } else {
         cumulativeTrapezoid(weight, cdf, lowMass, coreIndex);
       }
-      tailCellWeights(tailSurvival, nodes, weight, coreIndex, tailWeight, endCorrection);
+      tailCellWeights(tailSurvival, scratchDecay, nodes, weight, coreIndex, tailWeight, endCorrection);
       monotoneCore(cdf, coreIndex);
       this.weight = weight;
       this.tailIndex = tailIndex;
@@ -192,7 +194,7 @@ export class DrawTable {
     const nodeF = scratchNodeF;
     nodeF[0] = Math.max(cdf[coreIndex]!, 1 - tailSurvival[0]!);
     for (let k = 1; k < nodes; k++) nodeF[k] = Math.max(nodeF[k - 1]!, 1 - tailSurvival[k]!);
-    fillThinTail(scratchTail, nodes, tailSurvival, nodeF, cdf, far, lo, top);
+    fillThinTail(scratchTail, nodes, tailSurvival, scratchDecay, nodeF, cdf, far, lo, top);
     // (With no thin tail at all, the last grid point keeps its own value, as F beyond it is exact.)
     if (nodes > 1) cdf[n - 1] = nodeF[near < nodes ? near : nodes - 1]!;
     if (farCount > 0) far[farCount - 1] = nodeF[nodes - 1]!;
@@ -314,6 +316,7 @@ const EMPTY_INDEX = new Int32Array(0);
 // Per-node working values, reused from table to table (tables are built one at a time).
 let scratchSurvival = new Float64Array(128);
 let scratchNodeF = new Float64Array(128);
+let scratchDecay = new Float64Array(128);
 let scratchHalf = new Float64Array(1024);
 let scratchTail = new Int32Array(128);
 const scratchBounds = new Int32Array(5);
@@ -501,15 +504,26 @@ function cumulativeTrapezoid(weight: Float64Array, cdf: Float64Array, lowMass: n
   }
 }
 
-// Each tail cell's exact mass goes to its two ends in the ratio that puts its centre of mass
-// right for an exponential density across the cell (rate from the two survivals), so the rule
-// is exact for a g linear across the cell.
-function tailCellWeights(tailSurvival: Float64Array, nodes: number, weight: Float64Array, coreIndex: number, tailWeight: Float64Array, endCorrection: number): void {
+// log(S(x_k) / S(x_k+1)) of each tail cell into decay (NaN where a survival is 0), for both
+// uses below. A NaN read from an array rather than chosen as a literal: the literal made V8 keep
+// the value boxed, one heap number per tail node.
+function tailDecays(tailSurvival: Float64Array, nodes: number, decay: Float64Array): void {
+  decay.fill(NaN);
   for (let k = 0; k + 1 < nodes; k++) {
     const s0 = tailSurvival[k]!;
     const s1 = tailSurvival[k + 1]!;
-    const mass = Math.max(0, s0 - s1);
-    const decay = s0 > 0 && s1 > 0 ? Math.log(s0 / s1) : 0;
+    if (s0 > 0 && s1 > 0) decay[k] = Math.log(s0 / s1);
+  }
+}
+
+// Each tail cell's exact mass goes to its two ends in the ratio that puts its centre of mass
+// right for an exponential density across the cell (rate from the two survivals), so the rule
+// is exact for a g linear across the cell.
+function tailCellWeights(tailSurvival: Float64Array, decays: Float64Array, nodes: number, weight: Float64Array, coreIndex: number, tailWeight: Float64Array, endCorrection: number): void {
+  for (let k = 0; k + 1 < nodes; k++) {
+    const mass = Math.max(0, tailSurvival[k]! - tailSurvival[k + 1]!);
+    const decay = decays[k]!;
+    // (NaN, a survival of 0, fails the test: half and half.)
     const theta = decay > 1e-6 ? 1 / decay - 1 / Math.expm1(decay) : 0.5;
     if (k === 0) weight[coreIndex] = weight[coreIndex]! + mass * (1 - theta);
     else tailWeight[k - 1] = tailWeight[k - 1]! + mass * (1 - theta);
@@ -519,7 +533,8 @@ function tailCellWeights(tailSurvival: Float64Array, nodes: number, weight: Floa
 
 // The thin tail between nodes: log S linear, clamped to the nodes' F, so F keeps increasing.
 // On the near tail S steps by a constant factor per minute; on the far tail per FAR_STEP.
-function fillThinTail(tail: Int32Array, nodes: number, tailSurvival: Float64Array, nodeF: Float64Array, cdf: Float64Array, far: Float64Array, lo: number, top: number): void {
+// Where a survival is 0 (decay NaN), F is linear across the cell instead.
+function fillThinTail(tail: Int32Array, nodes: number, tailSurvival: Float64Array, decays: Float64Array, nodeF: Float64Array, cdf: Float64Array, far: Float64Array, lo: number, top: number): void {
   for (let k = 0; k + 1 < nodes; k++) {
     const x0 = tail[k]!;
     const x1 = tail[k + 1]!;
@@ -527,9 +542,10 @@ function fillThinTail(tail: Int32Array, nodes: number, tailSurvival: Float64Arra
     const s1 = tailSurvival[k + 1]!;
     const f0 = nodeF[k]!;
     const f1 = nodeF[k + 1]!;
-    const logRate = s0 > 0 && s1 > 0 ? Math.log(s1 / s0) / (x1 - x0) : NaN;
+    const decay = decays[k]!;
+    const logRate = -decay / (x1 - x0);
     if (x0 < top) {
-      if (Number.isNaN(logRate)) {
+      if (Number.isNaN(decay)) {
         for (let x = x0; x < x1; x++) cdf[x - lo] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (x - x0)) / (x1 - x0)));
       } else {
         const ratio = Math.exp(logRate);
@@ -539,7 +555,7 @@ function fillThinTail(tail: Int32Array, nodes: number, tailSurvival: Float64Arra
     } else {
       // Far points x0 <= top + j * FAR_STEP < x1, S stepped by a constant factor between them.
       const j0 = Math.ceil((x0 - top) / FAR_STEP);
-      if (Number.isNaN(logRate)) {
+      if (Number.isNaN(decay)) {
         for (let j = j0; top + j * FAR_STEP < x1; j++) far[j] = Math.min(f1, Math.max(f0, f0 + ((s0 - s1) * (top + j * FAR_STEP - x0)) / (x1 - x0)));
       } else {
         const ratio = Math.exp(logRate * FAR_STEP);
