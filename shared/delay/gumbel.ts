@@ -82,6 +82,11 @@ export function gumbelVariance(mu: number, beta: number): number {
   return invalid(mu, beta) ? NaN : (Math.PI * Math.PI * beta * beta) / 6;
 }
 
+/** weight * S(xs[k]) added into out[k] for k < count, as gumbelSurvival computes S; parameters assumed valid. */
+export function addGumbelSurvivals(xs: Int32Array, count: number, out: Float64Array, mu: number, beta: number, weight: number): void {
+  for (let k = 0; k < count; k++) out[k] = out[k]! + weight * oneMinusExpNeg(Math.exp(-(xs[k]! - mu) / beta));
+}
+
 /** How often addGumbelGrid recomputes e^{-z} instead of stepping it (points). */
 const RESYNC_POINTS = 32;
 
@@ -153,5 +158,9 @@ export function gumbelDistribution(mu: number, beta: number): DelayDistribution 
       addGumbelGrid(out, lo, step, mu, beta, 1, true);
     },
     addGrid: (lo, out, step, weight, density) => addGumbelGrid(out, lo, step, mu, beta, weight, density),
+    survivalAt: (xs, count, out) => {
+      for (let k = 0; k < count; k++) out[k] = oneMinusExpNeg(Math.exp(-(xs[k]! - mu) / beta));
+    },
+    addSurvivalAt: (xs, count, out, weight) => addGumbelSurvivals(xs, count, out, mu, beta, weight),
   };
 }

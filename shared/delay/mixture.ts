@@ -44,6 +44,12 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
       for (let i = 0; i < out.length; i++) out[i]! += w * part[i]!;
     }
   };
+  // Components summed in order into each node, as survival(x) sums them.
+  const summable = comps.every((d) => d.addSurvivalAt);
+  const survivalAt = (xs: Int32Array, count: number, out: Float64Array) => {
+    out.fill(0, 0, count);
+    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) comps[k]!.addSurvivalAt!(xs, count, out, ws[k]!);
+  };
   const jumps = comps.some((d) => d.densityJumps) ? comps.flatMap((d, k) => (d.densityJumps?.() ?? []).map(([x, jump, slope]) => [x, ws[k]! * jump, ws[k]! * slope] as const)) : [];
   // One literal with every field (absent ones undefined): spreading optional parts into it made
   // each mixture object the slow way, and the risk tables make one per posterior draw.
@@ -51,6 +57,7 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
     cdfGrid: gridded ? (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, false) : undefined,
     pdfGrid: gridded ? (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, true) : undefined,
     densityJumps: jumps.length > 0 ? () => jumps : undefined,
+    survivalAt: summable ? survivalAt : undefined,
     // Plain loops rather than a helper taking a closure: the risk tables call these thousands
     // of times per route, and a closure per call is garbage.
     cdf: (x) => {

@@ -42,6 +42,14 @@ export interface GridEvaluation {
    */
   addGrid?(lo: number, out: Float64Array, step: number, weight: number, density: boolean): void;
   /**
+   * S at the whole minutes xs[0], ..., xs[count - 1] into out[0..count), the same values as
+   * survival(x) in the same order of operations: the risk tables' tail nodes, dozens per table,
+   * each of which a call of survival would return boxed.
+   */
+  survivalAt?(xs: Int32Array, count: number, out: Float64Array): void;
+  /** weight * S(xs[k]) added into out[k], for k < count (a mixture sums its components so). */
+  addSurvivalAt?(xs: Int32Array, count: number, out: Float64Array, weight: number): void;
+  /**
    * Where the density jumps, as [x, J, K]: J = f(x+) - f(x-) and K = f'(x+) - f'(x-) (a
    * component whose support starts at x). The risk engine's density tables correct the
    * trapezoid for each (shared/risk/delay-table.ts), so such a density need not fall back to

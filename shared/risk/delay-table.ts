@@ -387,8 +387,12 @@ function growTail(length: number): void {
   scratchTail = grown;
 }
 
+// S at the tail nodes, all at once when the distribution can (GridEvaluation.survivalAt), checked.
 function tailSurvivals(dist: DelayDistribution, tail: Int32Array, nodes: number, out: Float64Array): void {
-  for (let k = 0; k < nodes; k++) out[k] = checked(dist.survival(tail[k]!), tail[k]!, 'survival');
+  const batch = (dist as DelayDistribution & GridEvaluation).survivalAt;
+  if (batch) batch.call(dist, tail, nodes, out);
+  else for (let k = 0; k < nodes; k++) out[k] = dist.survival(tail[k]!);
+  for (let k = 0; k < nodes; k++) if (!(out[k]! >= 0 && out[k]! <= 1)) checked(out[k]!, tail[k]!, 'survival');
 }
 
 // F at lo, lo + 1, ... into cdf (role 'cdf'), by the distribution's grid when it has one,

@@ -5,7 +5,7 @@
 // the whole distribution (departure delays derived from arrival delays add the en-route
 // recovery offset).
 import type { Rng } from '../../inference/rng';
-import { addGumbelGrid, gumbelLogPdf, gumbelPdf, gumbelSample, oneMinusExpNeg } from '../gumbel';
+import { addGumbelGrid, addGumbelSurvivals, gumbelLogPdf, gumbelPdf, gumbelSample, oneMinusExpNeg } from '../gumbel';
 import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
 import { componentIndex } from '../mixture';
@@ -185,6 +185,15 @@ export class TailMixtureDistribution implements DelayDistribution {
     let s = 0;
     for (const c of this.parts) s += c.weight * componentSurvival(c, x);
     return s;
+  }
+
+  /** survival at xs[0..count) into out, component by component in the same order (GridEvaluation). */
+  survivalAt(xs: Int32Array, count: number, out: Float64Array): void {
+    out.fill(0, 0, count);
+    for (const c of this.parts) {
+      if (c.kind === 'gumbel') addGumbelSurvivals(xs, count, out, c.location, c.scale, c.weight);
+      else for (let k = 0; k < count; k++) out[k] = out[k]! + c.weight * componentSurvival(c, xs[k]!);
+    }
   }
 
   pdf(x: number): number {

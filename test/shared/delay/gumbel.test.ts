@@ -142,6 +142,23 @@ describe('Gumbel on a grid (the risk tables use it) against @stdlib/stats-base-d
     }
   });
 
+  it('survivalAt gives survival at each node exactly, and 1 - F within 1e-13 (@stdlib/stats-base-dists-gumbel)', () => {
+    const dist = gumbelDistribution(5, 12);
+    const xs = Int32Array.from([-200, -30, 0, 5, 17, 60, 240, 480, 900]);
+    const out = new Float64Array(xs.length + 1).fill(-1);
+    dist.survivalAt!(xs, xs.length, out);
+    xs.forEach((x, k) => {
+      expect(out[k]).toBe(dist.survival(x));
+      expect(Math.abs(out[k]! - (1 - stdlibGumbel.cdf(x, 5, 12)))).toBeLessThanOrEqual(1e-13);
+    });
+    // Far in the tail S keeps its relative precision, which 1 - F loses: S(480) = -expm1(-e^{-z}).
+    expect(out[7]! / -Math.expm1(-Math.exp(-(480 - 5) / 12))).toBeCloseTo(1, 14);
+    expect(out[xs.length]).toBe(-1);
+    const added = new Float64Array(xs.length).fill(0.5);
+    dist.addSurvivalAt!(xs, xs.length, added, 0.25);
+    xs.forEach((x, k) => expect(added[k]).toBe(0.5 + 0.25 * dist.survival(x)));
+  });
+
   it('addGrid adds weight times F or f onto what the row holds', () => {
     const dist = gumbelDistribution(5, 12);
     const F = new Float64Array(400).fill(0.25);

@@ -84,6 +84,25 @@ describe('distributions that evaluate runs of minutes at once', () => {
       closeTo(drawMakeProbability(arr, dep, m), logistic.cdf(m, 3, 12), 2e-5, `closed form, m=${m}`);
     }
   });
+
+  it('build the same tables whether the tail nodes come from survivalAt or from survival calls', () => {
+    for (const family of ['gumbel-gumbel', 'gumbel-gumbel-lomax'] as const) {
+      const eta = family === 'gumbel-gumbel' ? [-2, Math.log(11), 35, Math.log(50), -2] : [-2, Math.log(11), 35, Math.log(50), -2, Math.log(300), Math.log(2.2), -0.5];
+      const dist = new TailMixtureDistribution(family, eta, 4, 6.1);
+      // The same distribution without the batch: every method but survivalAt, bound to it.
+      const pointwise = { cdf: (x: number) => dist.cdf(x), survival: (x: number) => dist.survival(x), pdf: (x: number) => dist.pdf(x), sample: dist.sample.bind(dist), cdfGrid: dist.cdfGrid.bind(dist), pdfGrid: dist.pdfGrid.bind(dist), densityJumps: dist.densityJumps.bind(dist) };
+      for (const role of ['cdf', 'density'] as const) {
+        const batched = new DrawTable(dist, role);
+        const plain = new DrawTable(pointwise, role);
+        expect(batched.tailIndex.length, `${family} ${role}`).toBe(plain.tailIndex.length);
+        expect(Array.from(batched.cdf)).toEqual(Array.from(plain.cdf));
+        expect(Array.from(batched.far)).toEqual(Array.from(plain.far));
+        expect(Array.from(batched.weight)).toEqual(Array.from(plain.weight));
+        expect(Array.from(batched.tailWeight)).toEqual(Array.from(plain.tailWeight));
+        expect(batched.highMass).toBe(plain.highMass);
+      }
+    }
+  });
 });
 
 describe('ConnectionPair', () => {
