@@ -8,7 +8,7 @@
 // The posterior predictive is the mean over draws; the credible interval is the central quantile
 // range across draws. The result is monotone in m by construction (non-negative weights times a
 // CDF), which the bisection for the minimum layover relies on.
-import { farInterpolate, type DrawTable, type RouteTables } from './delay-table';
+import { FAR_FRACTION, FAR_MASK, FAR_SHIFT, type DrawTable, type RouteTables } from './delay-table';
 
 /** Longest layover the minimum-layover search considers (minutes): a longer gap is a stopover. */
 export const MAX_LAYOVER_MINUTES = 1440;
@@ -32,11 +32,17 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
   const inStart = Math.min(coreLength, Math.max(0, -shift));
   const inEnd = Math.max(inStart, Math.min(coreLength, nA - shift));
   // Core points below A's grid meet F_A = 0 and add nothing; past A's whole-minute table come its
-  // far points, then F(hi_A). Each case adds its own product (see farInterpolate).
+  // far points, then F(hi_A). Each case adds its own product. (farInterpolate's formula is
+  // written out in the loops: a call V8 left out of line returned every value boxed.)
   for (let i = inStart; i < inEnd; i++) sum += w[i]! * fa[i + shift]!;
   const { far, top, hi: hiA, beyondHi } = arrival;
   const farEnd = Math.max(inEnd, Math.min(coreLength, hiA - m - lo));
-  for (let i = inEnd; i < farEnd; i++) sum += w[i]! * farInterpolate(far, top, m + lo + i);
+  for (let i = inEnd; i < farEnd; i++) {
+    const offset = m + lo + i - top;
+    const j = offset >> FAR_SHIFT;
+    const f0 = far[j]!;
+    sum += w[i]! * (f0 + (far[j + 1]! - f0) * ((offset & FAR_MASK) * FAR_FRACTION));
+  }
   for (let i = farEnd; i < coreLength; i++) sum += w[i]! * beyondHi;
   const tail = departure.tailIndex;
   const tw = departure.tailWeight;
@@ -46,7 +52,12 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
     const x = m + lo + tail[k]!;
     if (j < nA) sum += tw[k]! * fa[j]!;
     else if (x >= hiA) sum += tw[k]! * beyondHi;
-    else sum += tw[k]! * farInterpolate(far, top, x);
+    else {
+      const offset = x - top;
+      const b = offset >> FAR_SHIFT;
+      const f0 = far[b]!;
+      sum += tw[k]! * (f0 + (far[b + 1]! - f0) * ((offset & FAR_MASK) * FAR_FRACTION));
+    }
   }
   // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under S_D(hi_D).
   sum += departure.highMass * arrival.cdfAt(m + departure.hi);

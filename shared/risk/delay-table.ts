@@ -35,8 +35,10 @@ const FAR_STEP = 8;
  * between two minutes strays by up to f0 / 2, which for a bundle's severe component is 1e-4 or more.
  */
 const CORE_MASS_TOLERANCE = 1e-5;
-/** log2 of FAR_STEP. */
-const FAR_SHIFT = 3;
+/** log2 of FAR_STEP, FAR_STEP - 1 and 1 / FAR_STEP (exact): farInterpolate's constants, also used where it is written out. */
+export const FAR_SHIFT = 3;
+export const FAR_MASK = FAR_STEP - 1;
+export const FAR_FRACTION = 1 / FAR_STEP;
 
 /**
  * What a table is for: 'cdf' (the inbound arrival delay, whose CDF the quadrature looks up) or
@@ -269,15 +271,16 @@ function farCdf(far: Float64Array, top: number, hi: number, beyondHi: number, x:
 /**
  * F at a whole minute top < x < hi, linear between the far points. FAR_STEP is a power of two,
  * so the position in the cell is exact, and F >= 0.99 here, so far[j + 1] - far[j] is exact
- * (Sterbenz): F rises from far[j] to at most far[j + 1]. The quadrature loops call this for
- * the minutes between top and hi and add F(hi) apart: a value chosen between a number field and
- * the arrays' numbers would be kept boxed on the heap, a million times per scoring run.
+ * (Sterbenz): F rises from far[j] to at most far[j + 1]. The quadrature loops
+ * (drawMakeProbability) write this formula out for the minutes between top and hi and add F(hi)
+ * apart: a value chosen between a number field and the arrays' numbers, or returned from a call
+ * left out of line, would be boxed on the heap, a million times per scoring run.
  */
 export function farInterpolate(far: Float64Array, top: number, x: number): number {
   const offset = x - top;
   const j = offset >> FAR_SHIFT;
   const f0 = far[j]!;
-  return f0 + (far[j + 1]! - f0) * ((offset & (FAR_STEP - 1)) / FAR_STEP);
+  return f0 + (far[j + 1]! - f0) * ((offset & FAR_MASK) * FAR_FRACTION);
 }
 
 const EMPTY = new Float64Array(0);

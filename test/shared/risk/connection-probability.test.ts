@@ -278,6 +278,35 @@ describe('quadrature accuracy on a heavy-tailed mixture', () => {
   });
 });
 
+describe('drawMakeProbability against its own rule, term by term', () => {
+  // The documented sum, E[F_A(m + D)] ~ lowMass F_A(m + lo) + sum_i w_i F_A(m + lo + i)
+  // + sum_k tw_k F_A(m + lo + tail_k) + highMass F_A(m + hi), with every F_A from the table's
+  // public cdfAt: the quadrature's fast loops (which write the far tail's interpolation out)
+  // must give the same number for every margin, whichever part of A's table each term meets.
+  it('matches the sum over cdfAt at margins that reach A\'s far points and beyond', () => {
+    for (const t of [0, 11]) {
+      const a = mixtureTables('arrival', 21).table(t);
+      const d = mixtureTables('departure', 22).table(t);
+      expect(a.far.length).toBeGreaterThan(2);
+      expect(d.tailIndex.length).toBeGreaterThan(2);
+      let farTerms = 0;
+      for (const m of [-400, -60, 0, 45, 130, 250, 333, 480, 700, 1000, 3000]) {
+        let sum = d.lowMass * a.cdfAt(m + d.lo);
+        for (let i = 0; i < d.coreLength; i++) sum += d.weight[i]! * a.cdfAt(m + d.lo + i);
+        d.tailIndex.forEach((offset, k) => {
+          const x = m + d.lo + offset;
+          if (x > a.top && x < a.hi) farTerms++;
+          sum += d.tailWeight[k]! * a.cdfAt(x);
+        });
+        sum += d.highMass * a.cdfAt(m + d.hi);
+        closeTo(drawMakeProbability(a, d, m), Math.min(1, sum), 1e-14, `draw ${t}, m=${m}`);
+      }
+      // Some tail nodes did land between A's far points.
+      expect(farTerms).toBeGreaterThan(5);
+    }
+  });
+});
+
 describe('quadrature accuracy far into the tail', () => {
   // The same reference as above, with the step widened to 0.5 minutes past 600 minutes and the
   // remainder beyond 40,000 minutes counted at its lower bound S_D(40000) F_A(m + 40000).
