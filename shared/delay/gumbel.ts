@@ -140,6 +140,7 @@ function expNegative(t: number): number {
 export function gumbelDistribution(mu: number, beta: number): DelayDistribution & GridEvaluation {
   if (invalid(mu, beta)) throw new RangeError(`Gumbel needs a finite location and a finite scale > 0, got (${mu}, ${beta})`);
   return {
+    gumbel: { location: mu, scale: beta },
     cdf: (x) => gumbelCdf(x, mu, beta),
     // Parameters checked above; NaN and the infinities come out right without special cases.
     survival: (x) => oneMinusExpNeg(Math.exp(-(x - mu) / beta)),

@@ -44,6 +44,9 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
       for (let i = 0; i < out.length; i++) out[i]! += w * part[i]!;
     }
   };
+  const allGumbel = comps.every((d) => d.gumbel);
+  const locations = allGumbel ? Float64Array.from(comps, (d) => d.gumbel!.location) : undefined;
+  const scales = allGumbel ? Float64Array.from(comps, (d) => d.gumbel!.scale) : undefined;
   // Components summed in order into each node, as survival(x) sums them.
   const summable = comps.every((d) => d.addSurvivalAt);
   const survivalAt = (xs: Int32Array, count: number, out: Float64Array) => {
@@ -80,9 +83,17 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
     },
     // Choose a component by its weight, then draw from it.
     sample: (rng: Rng) => comps[componentIndex(ws, rng.uniform())]!.sample(rng),
-    // As sample, in place: a component with its own sampleInto writes its draw into out[i]
-    // (a stride past the end stops it after one), so no draw is returned from a call.
+    // As sample, in place: a mixture of Gumbels with gumbelSample's formula written out; else
+    // a component with its own sampleInto writes its draw into out[i] (a stride past the end
+    // stops it after one), so no draw is returned from a call.
     sampleInto: (rng: Rng, out: Float64Array, start: number, stride: number, cap: number) => {
+      if (locations) {
+        for (let i = start; i < out.length; i += stride) {
+          const k = componentIndex(ws, rng.uniform());
+          out[i] = Math.min(cap, locations[k]! - scales![k]! * Math.log(-Math.log(rng.uniform())));
+        }
+        return;
+      }
       for (let i = start; i < out.length; i += stride) {
         const d = comps[componentIndex(ws, rng.uniform())]!;
         if (d.sampleInto) d.sampleInto(rng, out, i, out.length, cap);

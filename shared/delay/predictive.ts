@@ -23,6 +23,12 @@ export interface DelayDistribution {
    * can fill them in place says so here.
    */
   sampleInto?(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void;
+  /**
+   * Present when the distribution is a plain Gumbel: its location and scale, so that a mixture
+   * of Gumbels can sample with the formula written out (see mixtureDistribution) rather than a
+   * call per draw.
+   */
+  readonly gumbel?: { readonly location: number; readonly scale: number };
 }
 
 /**

@@ -40,6 +40,15 @@ describe('mixtureDistribution', () => {
     expect(out.some((v) => v === 60)).toBe(true);
   });
 
+  it('samples a mixture of Gumbels in place with the formula written out, the values of sample() in turn', () => {
+    const gumbels = mixtureDistribution([gumbelDistribution(2, 11), gumbelDistribution(30, 45), gumbelDistribution(-5, 3)], [0.7, 0.2, 0.1]);
+    const out = new Float64Array(3000).fill(-1);
+    gumbels.sampleInto!(createRng(9), out, 2, 3, 150);
+    const rng = createRng(9);
+    for (let i = 0; i < out.length; i++) expect(out[i]).toBe(i % 3 === 2 ? Math.min(150, gumbels.sample(rng)) : -1);
+    expect(out.some((v) => v === 150)).toBe(true);
+  });
+
   it('rejects empty component lists and weights that are negative, non-finite or do not sum to 1', () => {
     const g = gumbelDistribution(0, 1);
     expect(() => mixtureDistribution([], [])).toThrow(/at least one/);
