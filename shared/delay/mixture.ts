@@ -44,9 +44,11 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
       for (let i = 0; i < out.length; i++) out[i]! += w * part[i]!;
     }
   };
+  // Plain arrays: a typed array each would cost an off-heap store per mixture, and the risk
+  // engine makes one mixture per posterior draw.
   const allGumbel = comps.every((d) => d.gumbel);
-  const locations = allGumbel ? Float64Array.from(comps, (d) => d.gumbel!.location) : undefined;
-  const scales = allGumbel ? Float64Array.from(comps, (d) => d.gumbel!.scale) : undefined;
+  const locations = allGumbel ? comps.map((d) => d.gumbel!.location) : undefined;
+  const scales = allGumbel ? comps.map((d) => d.gumbel!.scale) : undefined;
   // Components summed in order into each node, as survival(x) sums them.
   const summable = comps.every((d) => d.addSurvivalAt);
   const survivalAt = (xs: Int32Array, count: number, out: Float64Array) => {
