@@ -170,9 +170,10 @@ function sampleInto(dist: DelayDistribution, stream: Rng, out: Float64Array, sta
 }
 
 /**
- * Most gaps one connection's row (or a long trip's summed rows) counts. A shortfall is at most
- * MAX_SIMULATED_DELAY_MINUTES plus an early departure plus the MCT, far below this many
- * one-minute gaps; the cap only keeps a pathological input from wrapping around.
+ * Most gaps one connection's row (or a long trip's summed rows) counts: 45 days of one-minute
+ * gaps. Arrival delays are capped at MAX_SIMULATED_DELAY_MINUTES, but departure delays are not
+ * capped below, so an absurd early departure far in a heavy left tail could ask for more; it is
+ * counted as this many rather than wrapping around.
  */
 const MAX_GAP_COUNT = 0xffff;
 
