@@ -159,8 +159,10 @@ export function gumbelDistribution(mu: number, beta: number): DelayDistribution 
       addGumbelGrid(out, lo, step, mu, beta, 1, true);
     },
     addGrid: (lo, out, step, weight, density) => addGumbelGrid(out, lo, step, mu, beta, weight, density),
+    // 0 + 1 * S is S exactly, so this gives survival's values.
     survivalAt: (xs, count, out) => {
-      for (let k = 0; k < count; k++) out[k] = oneMinusExpNeg(Math.exp(-(xs[k]! - mu) / beta));
+      out.fill(0, 0, count);
+      addGumbelSurvivals(xs, count, out, mu, beta, 1);
     },
     addSurvivalAt: (xs, count, out, weight) => addGumbelSurvivals(xs, count, out, mu, beta, weight),
   };
