@@ -139,31 +139,68 @@ function expNegative(t: number): number {
  */
 export function gumbelDistribution(mu: number, beta: number): DelayDistribution & GridEvaluation {
   if (invalid(mu, beta)) throw new RangeError(`Gumbel needs a finite location and a finite scale > 0, got (${mu}, ${beta})`);
-  return {
-    gumbel: { location: mu, scale: beta },
-    cdf: (x) => gumbelCdf(x, mu, beta),
-    // Parameters checked above; NaN and the infinities come out right without special cases.
-    survival: (x) => oneMinusExpNeg(Math.exp(-(x - mu) / beta)),
-    pdf: (x) => gumbelPdf(x, mu, beta),
-    sample: (rng) => gumbelSample(rng, mu, beta),
-    // gumbelSample's formula inline: called, it returns each draw boxed when V8 does not inline it.
-    sampleInto: (rng, out, start, stride, cap) => {
-      for (let i = start; i < out.length; i += stride) out[i] = Math.min(cap, mu - beta * Math.log(-Math.log(rng.uniform())));
-    },
-    cdfGrid: (lo, out, step = 1) => {
-      out.fill(0);
-      addGumbelGrid(out, lo, step, mu, beta, 1, false);
-    },
-    pdfGrid: (lo, out, step = 1) => {
-      out.fill(0);
-      addGumbelGrid(out, lo, step, mu, beta, 1, true);
-    },
-    addGrid: (lo, out, step, weight, density) => addGumbelGrid(out, lo, step, mu, beta, weight, density),
-    // 0 + 1 * S is S exactly, so this gives survival's values.
-    survivalAt: (xs, count, out) => {
-      out.fill(0, 0, count);
-      addGumbelSurvivals(xs, count, out, mu, beta, 1);
-    },
-    addSurvivalAt: (xs, count, out, weight) => addGumbelSurvivals(xs, count, out, mu, beta, weight),
-  };
+  return new GumbelDistribution(mu, beta);
+}
+
+// A class rather than an object of closures: a scoring run makes thousands (two per posterior
+// draw of a mixture), and each closure-built object cost a dozen function objects, about half a
+// kilobyte that lived as long as the run's tables and was copied by every scavenge meanwhile.
+class GumbelDistribution implements DelayDistribution, GridEvaluation {
+  constructor(
+    readonly location: number,
+    readonly scale: number,
+  ) {}
+
+  /** The parameters themselves (DelayDistribution.gumbel). */
+  get gumbel(): { readonly location: number; readonly scale: number } {
+    return this;
+  }
+
+  cdf(x: number): number {
+    return gumbelCdf(x, this.location, this.scale);
+  }
+
+  // Parameters checked by gumbelDistribution; NaN and the infinities come out right without special cases.
+  survival(x: number): number {
+    return oneMinusExpNeg(Math.exp(-(x - this.location) / this.scale));
+  }
+
+  pdf(x: number): number {
+    return gumbelPdf(x, this.location, this.scale);
+  }
+
+  sample(rng: Rng): number {
+    return gumbelSample(rng, this.location, this.scale);
+  }
+
+  // gumbelSample's formula inline: called, it returns each draw boxed when V8 does not inline it.
+  sampleInto(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
+    const mu = this.location;
+    const beta = this.scale;
+    for (let i = start; i < out.length; i += stride) out[i] = Math.min(cap, mu - beta * Math.log(-Math.log(rng.uniform())));
+  }
+
+  cdfGrid(lo: number, out: Float64Array, step = 1): void {
+    out.fill(0);
+    addGumbelGrid(out, lo, step, this.location, this.scale, 1, false);
+  }
+
+  pdfGrid(lo: number, out: Float64Array, step = 1): void {
+    out.fill(0);
+    addGumbelGrid(out, lo, step, this.location, this.scale, 1, true);
+  }
+
+  addGrid(lo: number, out: Float64Array, step: number, weight: number, density: boolean): void {
+    addGumbelGrid(out, lo, step, this.location, this.scale, weight, density);
+  }
+
+  // 0 + 1 * S is S exactly, so this gives survival's values.
+  survivalAt(xs: Int32Array, count: number, out: Float64Array): void {
+    out.fill(0, 0, count);
+    addGumbelSurvivals(xs, count, out, this.location, this.scale, 1);
+  }
+
+  addSurvivalAt(xs: Int32Array, count: number, out: Float64Array, weight: number): void {
+    addGumbelSurvivals(xs, count, out, this.location, this.scale, weight);
+  }
 }

@@ -21,12 +21,110 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
     total += w;
   }
   if (Math.abs(total - 1) > 1e-9) throw new RangeError(`mixture weights must sum to 1, got ${total}`);
-  const comps = components.slice();
-  const ws = Float64Array.from(weights);
+  return new MixtureDistribution(components.slice(), weights.slice());
+}
 
-  const gridded = comps.every((d) => d.cdfGrid && d.pdfGrid);
-  let scratch = new Float64Array(0);
-  const grid = (lo: number, out: Float64Array, step: number | undefined, density: boolean) => {
+type Component = DelayDistribution & GridEvaluation;
+type Jump = readonly [number, number, number];
+
+/**
+ * A class rather than an object of closures: the risk engine makes one mixture per posterior
+ * draw, thousands per scoring run, and each closure-built object cost about a dozen function
+ * objects that lived as long as the run's tables. The optional GridEvaluation methods are
+ * fields set to shared functions, or undefined where the components do not allow them, so
+ * every instance has the same shape.
+ */
+class MixtureDistribution implements DelayDistribution, GridEvaluation {
+  // Plain arrays: a typed array each would cost an off-heap store per mixture.
+  readonly ws: number[];
+  /** The components' locations and scales when all are Gumbels (for sampleInto), else null. */
+  readonly locations: number[] | null;
+  readonly scales: number[] | null;
+  readonly jumps: readonly Jump[];
+  scratch: Float64Array | null = null;
+  readonly cdfGrid: ((lo: number, out: Float64Array, step?: number) => void) | undefined;
+  readonly pdfGrid: ((lo: number, out: Float64Array, step?: number) => void) | undefined;
+  readonly survivalAt: ((xs: Int32Array, count: number, out: Float64Array) => void) | undefined;
+  readonly densityJumps: (() => readonly Jump[]) | undefined;
+
+  constructor(
+    readonly comps: readonly Component[],
+    ws: number[],
+  ) {
+    this.ws = ws;
+    let gridded = true;
+    let summable = true;
+    let allGumbel = true;
+    let jumpy = false;
+    for (const d of comps) {
+      gridded &&= d.cdfGrid !== undefined && d.pdfGrid !== undefined;
+      // Components summed in order into each node, as survival(x) sums them.
+      summable &&= d.addSurvivalAt !== undefined;
+      allGumbel &&= d.gumbel !== undefined;
+      jumpy ||= d.densityJumps !== undefined;
+    }
+    this.locations = allGumbel ? comps.map((d) => d.gumbel!.location) : null;
+    this.scales = allGumbel ? comps.map((d) => d.gumbel!.scale) : null;
+    this.jumps = jumpy ? comps.flatMap((d, k) => (d.densityJumps?.() ?? []).map(([x, jump, slope]) => [x, ws[k]! * jump, ws[k]! * slope] as const)) : [];
+    this.cdfGrid = gridded ? mixtureCdfGrid : undefined;
+    this.pdfGrid = gridded ? mixturePdfGrid : undefined;
+    this.survivalAt = summable ? mixtureSurvivalAt : undefined;
+    this.densityJumps = this.jumps.length > 0 ? mixtureJumps : undefined;
+  }
+
+  // Plain loops rather than a helper taking a closure: the risk tables call these thousands
+  // of times per route, and a closure per call is garbage.
+  cdf(x: number): number {
+    if (Number.isNaN(x)) return NaN;
+    const { comps, ws } = this;
+    let s = 0;
+    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.cdf(x);
+    return s;
+  }
+
+  survival(x: number): number {
+    if (Number.isNaN(x)) return NaN;
+    const { comps, ws } = this;
+    let s = 0;
+    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.survival(x);
+    return s;
+  }
+
+  pdf(x: number): number {
+    if (Number.isNaN(x)) return NaN;
+    const { comps, ws } = this;
+    let s = 0;
+    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.pdf(x);
+    return s;
+  }
+
+  // Choose a component by its weight, then draw from it.
+  sample(rng: Rng): number {
+    return this.comps[componentIndex(this.ws, rng.uniform())]!.sample(rng);
+  }
+
+  // As sample, in place: a mixture of Gumbels with gumbelSample's formula written out; else a
+  // component with its own sampleInto writes its draw into out[i] (a stride past the end stops
+  // it after one), so no draw is returned from a call.
+  sampleInto(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
+    const { comps, ws, locations, scales } = this;
+    if (locations && scales) {
+      for (let i = start; i < out.length; i += stride) {
+        const k = componentIndex(ws, rng.uniform());
+        out[i] = Math.min(cap, locations[k]! - scales[k]! * Math.log(-Math.log(rng.uniform())));
+      }
+      return;
+    }
+    for (let i = start; i < out.length; i += stride) {
+      const d = comps[componentIndex(ws, rng.uniform())]!;
+      if (d.sampleInto) d.sampleInto(rng, out, i, out.length, cap);
+      else out[i] = Math.min(cap, d.sample(rng));
+    }
+  }
+
+  /** The components' grids, weighted, summed into out (see GridEvaluation). */
+  grid(lo: number, out: Float64Array, step: number, density: boolean): void {
+    const { comps, ws } = this;
     out.fill(0);
     for (let k = 0; k < comps.length; k++) {
       const w = ws[k]!;
@@ -34,75 +132,34 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
       const d = comps[k]!;
       // A component that adds its own weighted values (a Gumbel) needs no scratch row.
       if (d.addGrid) {
-        d.addGrid(lo, out, step ?? 1, w, density);
+        d.addGrid(lo, out, step, w, density);
         continue;
       }
-      if (scratch.length < out.length) scratch = new Float64Array(out.length);
-      const part = scratch.subarray(0, out.length);
+      if (!this.scratch || this.scratch.length < out.length) this.scratch = new Float64Array(out.length);
+      const part = this.scratch.subarray(0, out.length);
       if (density) d.pdfGrid!(lo, part, step);
       else d.cdfGrid!(lo, part, step);
       for (let i = 0; i < out.length; i++) out[i]! += w * part[i]!;
     }
-  };
-  // Plain arrays: a typed array each would cost an off-heap store per mixture, and the risk
-  // engine makes one mixture per posterior draw.
-  const allGumbel = comps.every((d) => d.gumbel);
-  const locations = allGumbel ? comps.map((d) => d.gumbel!.location) : undefined;
-  const scales = allGumbel ? comps.map((d) => d.gumbel!.scale) : undefined;
-  // Components summed in order into each node, as survival(x) sums them.
-  const summable = comps.every((d) => d.addSurvivalAt);
-  const survivalAt = (xs: Int32Array, count: number, out: Float64Array) => {
-    out.fill(0, 0, count);
-    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) comps[k]!.addSurvivalAt!(xs, count, out, ws[k]!);
-  };
-  const jumps = comps.some((d) => d.densityJumps) ? comps.flatMap((d, k) => (d.densityJumps?.() ?? []).map(([x, jump, slope]) => [x, ws[k]! * jump, ws[k]! * slope] as const)) : [];
-  // One literal with every field (absent ones undefined): spreading optional parts into it made
-  // each mixture object the slow way, and the risk tables make one per posterior draw.
-  return {
-    cdfGrid: gridded ? (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, false) : undefined,
-    pdfGrid: gridded ? (lo: number, out: Float64Array, step?: number) => grid(lo, out, step, true) : undefined,
-    densityJumps: jumps.length > 0 ? () => jumps : undefined,
-    survivalAt: summable ? survivalAt : undefined,
-    // Plain loops rather than a helper taking a closure: the risk tables call these thousands
-    // of times per route, and a closure per call is garbage.
-    cdf: (x) => {
-      if (Number.isNaN(x)) return NaN;
-      let s = 0;
-      for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.cdf(x);
-      return s;
-    },
-    survival: (x) => {
-      if (Number.isNaN(x)) return NaN;
-      let s = 0;
-      for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.survival(x);
-      return s;
-    },
-    pdf: (x) => {
-      if (Number.isNaN(x)) return NaN;
-      let s = 0;
-      for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.pdf(x);
-      return s;
-    },
-    // Choose a component by its weight, then draw from it.
-    sample: (rng: Rng) => comps[componentIndex(ws, rng.uniform())]!.sample(rng),
-    // As sample, in place: a mixture of Gumbels with gumbelSample's formula written out; else
-    // a component with its own sampleInto writes its draw into out[i] (a stride past the end
-    // stops it after one), so no draw is returned from a call.
-    sampleInto: (rng: Rng, out: Float64Array, start: number, stride: number, cap: number) => {
-      if (locations) {
-        for (let i = start; i < out.length; i += stride) {
-          const k = componentIndex(ws, rng.uniform());
-          out[i] = Math.min(cap, locations[k]! - scales![k]! * Math.log(-Math.log(rng.uniform())));
-        }
-        return;
-      }
-      for (let i = start; i < out.length; i += stride) {
-        const d = comps[componentIndex(ws, rng.uniform())]!;
-        if (d.sampleInto) d.sampleInto(rng, out, i, out.length, cap);
-        else out[i] = Math.min(cap, d.sample(rng));
-      }
-    },
-  };
+  }
+}
+
+function mixtureCdfGrid(this: MixtureDistribution, lo: number, out: Float64Array, step?: number): void {
+  this.grid(lo, out, step ?? 1, false);
+}
+
+function mixturePdfGrid(this: MixtureDistribution, lo: number, out: Float64Array, step?: number): void {
+  this.grid(lo, out, step ?? 1, true);
+}
+
+function mixtureSurvivalAt(this: MixtureDistribution, xs: Int32Array, count: number, out: Float64Array): void {
+  const { comps, ws } = this;
+  out.fill(0, 0, count);
+  for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) comps[k]!.addSurvivalAt!(xs, count, out, ws[k]!);
+}
+
+function mixtureJumps(this: MixtureDistribution): readonly Jump[] {
+  return this.jumps;
 }
 
 /**

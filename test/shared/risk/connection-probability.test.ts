@@ -13,7 +13,7 @@ import {
 import { DrawTable, RouteTables } from '../../../shared/risk/delay-table';
 import { TailMixtureDistribution } from '../../../shared/delay/bundle/mixture-distribution';
 import { gumbelDelay, gumbelRoute } from '../../fixtures/risk/synthetic-source';
-import { createRng } from '../../../shared/inference/rng';
+import { createRng, type Rng } from '../../../shared/inference/rng';
 
 function closeTo(actual: number, expected: number, tol: number, what: string): void {
   if (!(Math.abs(actual - expected) <= tol)) {
@@ -63,7 +63,10 @@ describe('distributions that evaluate runs of minutes at once', () => {
       for (let i = 0; i < out.length; i++, t *= q) out[i] = density ? (t * Math.exp(-t)) / beta : Math.exp(-t);
     };
     return {
-      ...g,
+      cdf: (x: number) => g.cdf(x),
+      survival: (x: number) => g.survival(x),
+      pdf: (x: number) => g.pdf(x),
+      sample: (rng: Rng) => g.sample(rng),
       cdfGrid: (lo: number, out: Float64Array, step?: number) => run(lo, out, false, step),
       pdfGrid: (lo: number, out: Float64Array, step?: number) => run(lo, out, true, step),
     };
@@ -404,7 +407,10 @@ describe('departure densities the trapezoid cannot integrate', () => {
     const cdf = (x: number) => parts.reduce((s, p) => s + p.w * p.cdf(x), 0);
     return { cdf, survival: (x: number) => 1 - cdf(x), pdf: (x: number) => parts.reduce((s, p) => s + p.w * p.pdf(x), 0), sample: () => 0 };
   }
-  const gumbelPart = (w: number, mu: number, beta: number) => ({ w, cdf: gumbelDelay(mu, beta).cdf, pdf: gumbelDelay(mu, beta).pdf });
+  const gumbelPart = (w: number, mu: number, beta: number) => {
+    const g = gumbelDelay(mu, beta);
+    return { w, cdf: (x: number) => g.cdf(x), pdf: (x: number) => g.pdf(x) };
+  };
 
   it('integrates a component that starts between two minutes (a density jump) to within 1e-4 (the trapezoid was off by 1.2e-4)', () => {
     // A severe Lomax part from 5.6 minutes, as a derived departure's shifted start puts it.
