@@ -199,10 +199,16 @@ function tripTotals(r0: Uint16Array, r1: Uint16Array, r2: Uint16Array, g: number
   let byDeadline = 0;
   let min = Infinity;
   let max = -Infinity;
+  // The gap read back from a Float64Array is a double to V8: a whole-number g multiplied the
+  // integer counts as 32-bit integers, with overflow and minus-zero checks, at twice the
+  // loop's cost.
+  const out = totalsScratch;
+  out[5] = g;
+  const gap = out[5]!;
   for (let i = 0; i < delay.length; i++) {
     const gaps = r0[i]! + r1[i]! + r2[i]!;
     missed[i] = gaps > 0 ? 1 : 0;
-    const x = gaps * g + last[i]!;
+    const x = gaps * gap + last[i]!;
     delay[i] = x;
     sum += x;
     within += x < ON_TIME_TOLERANCE_MINUTES ? 1 : 0;
@@ -210,7 +216,6 @@ function tripTotals(r0: Uint16Array, r1: Uint16Array, r2: Uint16Array, g: number
     if (x < min) min = x;
     if (x > max) max = x;
   }
-  const out = totalsScratch;
   out[0] = sum;
   out[1] = within;
   out[2] = byDeadline;
@@ -219,7 +224,7 @@ function tripTotals(r0: Uint16Array, r1: Uint16Array, r2: Uint16Array, g: number
   return out;
 }
 
-const totalsScratch = new Float64Array(5);
+const totalsScratch = new Float64Array(6);
 
 function tripKey(trip: SimTrip): string {
   let key = `${trip.lastFlight} ${trip.rebookGapMinutes} ${trip.deadlineSlackMinutes}`;
