@@ -234,8 +234,9 @@ function tripKey(trip: SimTrip): string {
 
 /**
  * Quantiles (Hyndman & Fan definition 7) of values at each p, without sorting them all: the
- * values are counted into equal-width buckets between their minimum and maximum, and each order
- * statistic needed is selected among the values of its bucket only. A caller that already has
+ * values are counted into equal-width buckets between their minimum and maximum, the values of
+ * the buckets that hold the order statistics needed are gathered in one more pass, and each is
+ * selected among the values of its bucket only. A caller that already has
  * the minimum and maximum passes them (the trip loop finds them in its own pass). NaN-free input
  * assumed; empty input gives NaN; values are not modified. Plain functions and module state
  * rather than closures: a closure made per call is a new call target each time, and the
@@ -270,33 +271,63 @@ export function selectQuantiles(values: Float64Array, ps: readonly number[], min
     of[i] = b;
     counts[b]!++;
   }
-  gathered = -1;
+  // The buckets that hold the order statistics asked for, each given a region of bucketWork,
+  // then filled in one pass over the values.
+  const ranks = rankScratch(2 * ps.length);
+  let regions = 0;
+  for (let k = 0; k < ps.length; k++) {
+    const h = (n - 1) * ps[k]!;
+    const i = Math.floor(h);
+    ranks[2 * k] = i;
+    ranks[2 * k + 1] = Math.min(n - 1, i + 1);
+  }
+  for (let r = 0; r < 2 * ps.length; r++) {
+    let b = 0;
+    let start = 0;
+    while (start + counts[b]! <= ranks[r]!) start += counts[b++]!;
+    if (bucketRegion[b] === 0) {
+      const at = regions === 0 ? 0 : regionStart[regions - 1]! + counts[regionBucket[regions - 1]!]!;
+      regionBucket[regions] = b;
+      regionStart[regions] = at;
+      regionFill[regions] = at;
+      bucketRegion[b] = ++regions;
+    }
+  }
+  const work = bucketWork;
+  for (let i = 0; i < n; i++) {
+    const region = bucketRegion[of[i]!]!;
+    if (region !== 0) work[regionFill[region - 1]!++] = values[i]!;
+  }
   for (let k = 0; k < ps.length; k++) {
     const h = (n - 1) * ps[k]!;
     const i = Math.floor(h);
     const lo = orderStatistic(values, i);
     out[k] = i + 1 >= n || h === i ? lo : lo + (h - i) * (orderStatistic(values, i + 1) - lo);
   }
+  for (let r = 0; r < regions; r++) bucketRegion[regionBucket[r]!] = 0;
   return out;
 }
 
-// The r-th smallest of values (0-based), from the bucket counts of selectQuantiles: the values
-// of its bucket are gathered once (kept for the next order statistic in the same bucket).
+// The r-th smallest of values (0-based), selected in the region of bucketWork that holds its
+// bucket's values (see selectQuantiles). Selection reorders only that region.
 function orderStatistic(values: Float64Array, r: number): number {
   const counts = bucketCounts;
   let b = 0;
   let start = 0;
   while (start + counts[b]! <= r) start += counts[b++]!;
-  if (b !== gathered) {
-    const of = bucketOf;
-    const work = bucketWork;
-    let m = 0;
-    for (let i = 0; i < values.length; i++) if (of[i] === b) work[m++] = values[i]!;
-    gathered = b;
-    gatheredStart = start;
-    gatheredCount = m;
+  const region = bucketRegion[b]! - 1;
+  const at = regionStart[region]!;
+  return selectFrom(bucketWork, at, r - start + at, at + counts[b]!);
+}
+
+function rankScratch(length: number): Int32Array {
+  if (rankWork.length < length) {
+    rankWork = new Int32Array(length);
+    regionBucket = new Int32Array(length);
+    regionStart = new Int32Array(length);
+    regionFill = new Int32Array(length);
   }
-  return select(bucketWork, r - gatheredStart, gatheredCount);
+  return rankWork;
 }
 
 function minimumOf(values: Float64Array): number {
@@ -320,15 +351,23 @@ const QUANTILE_BUCKETS = 1024;
 const bucketCounts = new Int32Array(QUANTILE_BUCKETS);
 let bucketWork = new Float64Array(0);
 let bucketOf = new Uint16Array(0);
-// The bucket whose values bucketWork holds (-1: none), where its order statistics start, how many.
-let gathered = -1;
-let gatheredStart = 0;
-let gatheredCount = 0;
+// Per bucket, 1 + the index of its region in bucketWork (0: not gathered); per region, its
+// bucket, where it starts in bucketWork and how far it is filled. Reset after each call.
+const bucketRegion = new Int32Array(QUANTILE_BUCKETS);
+let rankWork = new Int32Array(8);
+let regionBucket = new Int32Array(8);
+let regionStart = new Int32Array(8);
+let regionFill = new Int32Array(8);
 
 // Hoare's quickselect with a middle pivot on a[0..length): the k-th smallest.
 function select(a: Float64Array, k: number, length: number): number {
-  let left = 0;
-  let right = length - 1;
+  return selectFrom(a, 0, k, length);
+}
+
+// The same on a[from..end): the value that sorting that range would put at index k.
+function selectFrom(a: Float64Array, from: number, k: number, end: number): number {
+  let left = from;
+  let right = end - 1;
   while (left < right) {
     const pivot = a[(left + right) >>> 1]!;
     let i = left;
