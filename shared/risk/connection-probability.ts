@@ -9,6 +9,7 @@
 // range across draws. The result is monotone in m by construction (non-negative weights times a
 // CDF), which the bisection for the minimum layover relies on.
 import { FAR_FRACTION, FAR_MASK, FAR_SHIFT, type DrawTable, type RouteTables } from './delay-table';
+import { selectQuantile } from './order-statistics';
 
 /** Longest layover the minimum-layover search considers (minutes): a longer gap is a stopover. */
 export const MAX_LAYOVER_MINUTES = 1440;
@@ -289,11 +290,17 @@ export function mean(values: ArrayLike<number>): number {
 export function centralInterval(values: ArrayLike<number>, level: number): [number, number] {
   if (!(level > 0 && level < 1)) throw new RangeError(`interval level must lie in (0, 1), got ${level}`);
   if (intervalScratch.length < values.length) intervalScratch = new Float64Array(values.length);
-  const sorted = intervalScratch.subarray(0, values.length);
-  for (let i = 0; i < values.length; i++) sorted[i] = values[i]!;
-  sorted.sort();
-  if (sorted.length === 0 || Number.isNaN(sorted[sorted.length - 1] ?? NaN)) return [NaN, NaN];
-  return [sortedQuantile(sorted, (1 - level) / 2), sortedQuantile(sorted, (1 + level) / 2)];
+  // Selection rather than a sort: this runs for every connection's draws and every trip's.
+  const n = values.length;
+  const work = intervalScratch;
+  for (let i = 0; i < n; i++) {
+    const v = values[i]!;
+    if (Number.isNaN(v)) return [NaN, NaN];
+    work[i] = v;
+  }
+  if (n === 0) return [NaN, NaN];
+  const lo = selectQuantile(work, n, (1 - level) / 2);
+  return [lo, selectQuantile(work, n, (1 + level) / 2)];
 }
 
 // Sorted in place here: scoring takes an interval of every connection and trip.

@@ -122,11 +122,40 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
   const rules = options.mctRules ?? [];
   const problems: Problem[] = [...parsed.problems];
 
-  // Which route posteriors are needed: arrivals of inbound and final legs, departures of outbound legs.
-  const routes = new Map<string, RouteSlot>();
-  const routeSlot = (leg: Leg, kind: 'arrival' | 'departure'): RouteSlot => {
-    const key = `${leg.from}-${leg.to}:${kind}`;
-    let slot = routes.get(key);
+  // Every leg's route and flight as small numbers, worked out once per leg: keys built from
+  // codes and dates and hashed afresh at every use cost more than the rest of the bookkeeping.
+  const routeIds = new Map<string, number>();
+  const flightIndex = new Map<string, number>();
+  const flights: { key: string; arrival?: RouteTables; departure?: RouteTables }[] = [];
+  const legRoutes: Int32Array[] = [];
+  const legFlights: Int32Array[] = [];
+  for (const trip of parsed.trips) {
+    const routesOfTrip = new Int32Array(trip.legs.length);
+    const flightsOfTrip = new Int32Array(trip.legs.length);
+    trip.legs.forEach((leg, k) => {
+      const route = `${leg.from}-${leg.to}`;
+      let id = routeIds.get(route);
+      if (id === undefined) routeIds.set(route, (id = routeIds.size));
+      routesOfTrip[k] = id;
+      const key = flightKey(leg);
+      let index = flightIndex.get(key);
+      if (index === undefined) {
+        index = flights.length;
+        flightIndex.set(key, index);
+        flights.push({ key });
+      }
+      flightsOfTrip[k] = index;
+    });
+    legRoutes.push(routesOfTrip);
+    legFlights.push(flightsOfTrip);
+  }
+
+  // Which route posteriors are needed: arrivals of inbound and final legs, departures of outbound
+  // legs; slot 2 * route for arrivals, 2 * route + 1 for departures.
+  const slots: (RouteSlot | undefined)[] = [];
+  const routeSlot = (leg: Leg, route: number, kind: 'arrival' | 'departure'): RouteSlot => {
+    const at = 2 * route + (kind === 'arrival' ? 0 : 1);
+    let slot = slots[at];
     if (!slot) {
       let posterior: RoutePosterior;
       try {
@@ -135,32 +164,34 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
         throw new Error(`no ${kind} posterior for ${leg.flight} ${leg.from}-${leg.to} (line ${leg.line}): ${err instanceof Error ? err.message : String(err)}`);
       }
       slot = { posterior };
-      routes.set(key, slot);
+      slots[at] = slot;
     }
     return slot;
   };
   const isScored = (trip: Trip, k: number) => !(trip.connections[k]?.flags.includes('stopover') ?? true);
-  for (const trip of parsed.trips) {
-    const last = trip.legs[trip.legs.length - 1];
-    if (last) routeSlot(last, 'arrival');
+  parsed.trips.forEach((trip, t) => {
+    const routesOfTrip = legRoutes[t]!;
+    const lastIndex = trip.legs.length - 1;
+    const last = trip.legs[lastIndex];
+    if (last) routeSlot(last, routesOfTrip[lastIndex]!, 'arrival');
     trip.connections.forEach((c, k) => {
       if (!isScored(trip, k)) return;
       const inbound = trip.legs[c.inboundLeg];
       const outbound = trip.legs[c.inboundLeg + 1];
-      if (inbound) routeSlot(inbound, 'arrival');
-      if (outbound) routeSlot(outbound, 'departure');
+      if (inbound) routeSlot(inbound, routesOfTrip[c.inboundLeg]!, 'arrival');
+      if (outbound) routeSlot(outbound, routesOfTrip[c.inboundLeg + 1]!, 'departure');
     });
-  }
+  });
   let draws = MAX_JOINT_DRAWS;
-  for (const slot of routes.values()) draws = Math.min(draws, slot.posterior.drawCount);
+  for (const slot of slots) if (slot) draws = Math.min(draws, slot.posterior.drawCount);
   const tablesOf = (slot: RouteSlot): RouteTables => (slot.tables ??= new RouteTables(slot.posterior, draws));
 
   // What every connection between the same two routes shares (travellers on the same flights
   // and on different days alike): the connection type and MCT, the pair of route tables, its
   // evidence, its P(make) summaries by slack and its minimum layover, each worked out once.
-  const routePairs = new Map<string, RoutePair>();
-  const routePairOf = (inbound: Leg, outbound: Leg): RoutePair => {
-    const key = `${inbound.from}-${inbound.to}>${outbound.from}-${outbound.to}`;
+  const routePairs = new Map<number, RoutePair>();
+  const routePairOf = (inbound: Leg, outbound: Leg, inRoute: number, outRoute: number): RoutePair => {
+    const key = inRoute * routeIds.size + outRoute;
     let info = routePairs.get(key);
     if (!info) {
       const type = connectionType(countryOf(inbound.from), countryOf(inbound.to), countryOf(outbound.from), countryOf(outbound.to));
@@ -169,10 +200,10 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     }
     return info;
   };
-  const scoredPairOf = (info: RoutePair, inbound: Leg, outbound: Leg): ConnectionPair => {
+  const scoredPairOf = (info: RoutePair, inbound: Leg, outbound: Leg, inRoute: number, outRoute: number): ConnectionPair => {
     if (!info.pair) {
-      const arrival = tablesOf(routeSlot(inbound, 'arrival'));
-      const departure = tablesOf(routeSlot(outbound, 'departure'));
+      const arrival = tablesOf(routeSlot(inbound, inRoute, 'arrival'));
+      const departure = tablesOf(routeSlot(outbound, outRoute, 'departure'));
       info.pair = new ConnectionPair(arrival, departure);
       info.inbound = evidence(arrival);
       info.outbound = evidence(departure);
@@ -191,41 +222,38 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     return `?${code}`;
   };
 
-  // Flights for the simulation, one per unique flight.
-  const flightIndex = new Map<string, number>();
-  const flights: { key: string; arrival?: RouteTables; departure?: RouteTables }[] = [];
-  const flightOf = (leg: Leg, kind: 'arrival' | 'departure'): number => {
-    const key = flightKey(leg);
-    let index = flightIndex.get(key);
-    if (index === undefined) {
-      index = flights.length;
-      flightIndex.set(key, index);
-      flights.push({ key });
-    }
-    const flight = flights[index] as { key: string; arrival?: RouteTables; departure?: RouteTables };
-    flight[kind] ??= tablesOf(routeSlot(leg, kind));
+  // A flight's tables for the simulation, set when some trip needs them.
+  const flightOf = (leg: Leg, t: number, k: number, kind: 'arrival' | 'departure'): number => {
+    const index = legFlights[t]![k]!;
+    const flight = flights[index]!;
+    flight[kind] ??= tablesOf(routeSlot(leg, legRoutes[t]![k]!, kind));
     return index;
   };
 
   const scoredConnections: ScoredConnection[][] = [];
   const allMakeByDraw: Float64Array[] = [];
   const simTrips: SimTrip[] = [];
-  for (const trip of parsed.trips) {
+  // P(all connections) per trip and draw, in one block (a typed array each is an off-heap store each).
+  const allMake = new Float64Array(parsed.trips.length * draws).fill(1);
+  parsed.trips.forEach((trip, tripIndex) => {
     const rebookGap = options.rebookGapByTrip?.[trip.id] ?? settings.rebookGap;
     const conns: ScoredConnection[] = [];
     const simConns: SimConnection[] = [];
-    const allByDraw = new Float64Array(draws).fill(1);
+    const allByDraw = allMake.subarray(tripIndex * draws, (tripIndex + 1) * draws);
+    const routesOfTrip = legRoutes[tripIndex]!;
     trip.connections.forEach((c, k) => {
       const inbound = trip.legs[c.inboundLeg] as Leg;
       const outbound = trip.legs[c.inboundLeg + 1] as Leg;
-      const info = routePairOf(inbound, outbound);
+      const inRoute = routesOfTrip[c.inboundLeg]!;
+      const outRoute = routesOfTrip[c.inboundLeg + 1]!;
+      const info = routePairOf(inbound, outbound, inRoute, outRoute);
       const { mct } = info;
       const flags: RiskFlag[] = [...c.flags];
       if (!isScored(trip, k)) {
         conns.push(connectionRecord(c, inbound, outbound, info, flags, null));
         return;
       }
-      const pair = scoredPairOf(info, inbound, outbound);
+      const pair = scoredPairOf(info, inbound, outbound, inRoute, outRoute);
       const slack = c.layoverMinutes - mct.mctMinutes;
       const byDraw = pair.drawProbabilities(slack);
       // Travellers on the same flights share a connection: its summary is worked out once.
@@ -252,19 +280,19 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
           warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior),
         }),
       );
-      simConns.push({ inbound: flightOf(inbound, 'arrival'), outbound: flightOf(outbound, 'departure'), slackMinutes: slack });
+      simConns.push({ inbound: flightOf(inbound, tripIndex, c.inboundLeg, 'arrival'), outbound: flightOf(outbound, tripIndex, c.inboundLeg + 1, 'departure'), slackMinutes: slack });
     });
     const last = trip.legs[trip.legs.length - 1] as Leg;
     const deadlineMs = trip.deadlineUtc ? Date.parse(trip.deadlineUtc) : NaN;
     simTrips.push({
       connections: simConns,
-      lastFlight: flightOf(last, 'arrival'),
+      lastFlight: flightOf(last, tripIndex, trip.legs.length - 1, 'arrival'),
       rebookGapMinutes: rebookGap,
       deadlineSlackMinutes: Number.isFinite(deadlineMs) ? (deadlineMs - last.arriveUtcMs) / 60000 : null,
     });
     scoredConnections.push(conns);
     allMakeByDraw.push(allByDraw);
-  }
+  });
 
   const simFlights: SimFlight[] = flights;
   const sims = simulateTrips(simFlights, simTrips, settings.simulations, draws, settings.seed);

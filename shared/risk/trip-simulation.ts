@@ -9,6 +9,7 @@ import { createRng, type Rng } from '../inference/rng';
 import type { DelayDistribution } from '../delay/predictive';
 import type { Leg } from '../itinerary/types';
 import type { RouteTables } from './delay-table';
+import { selectInRange } from './order-statistics';
 
 /** A unique flight: flight number, local departure date and route (a through flight's legs differ). */
 export function flightKey(leg: Leg): string {
@@ -258,8 +259,8 @@ export function selectQuantiles(values: Float64Array, ps: readonly number[], min
     for (let k = 0; k < ps.length; k++) {
       const h = (n - 1) * ps[k]!;
       const i = Math.floor(h);
-      const lo = select(work, i, n);
-      out[k] = i + 1 >= n || h === i ? lo : lo + (h - i) * (select(work, i + 1, n) - lo);
+      const lo = selectInRange(work, 0, i, n);
+      out[k] = i + 1 >= n || h === i ? lo : lo + (h - i) * (selectInRange(work, 0, i + 1, n) - lo);
     }
     return out;
   }
@@ -319,7 +320,7 @@ function orderStatistic(values: Float64Array, r: number): number {
   while (start + counts[b]! <= r) start += counts[b++]!;
   const region = bucketRegion[b]! - 1;
   const at = regionStart[region]!;
-  return selectFrom(bucketWork, at, r - start + at, at + counts[b]!);
+  return selectInRange(bucketWork, at, r - start + at, at + counts[b]!);
 }
 
 function rankScratch(length: number): Int32Array {
@@ -360,34 +361,3 @@ let rankWork = new Int32Array(8);
 let regionBucket = new Int32Array(8);
 let regionStart = new Int32Array(8);
 let regionFill = new Int32Array(8);
-
-// Hoare's quickselect with a middle pivot on a[0..length): the k-th smallest.
-function select(a: Float64Array, k: number, length: number): number {
-  return selectFrom(a, 0, k, length);
-}
-
-// The same on a[from..end): the value that sorting that range would put at index k.
-function selectFrom(a: Float64Array, from: number, k: number, end: number): number {
-  let left = from;
-  let right = end - 1;
-  while (left < right) {
-    const pivot = a[(left + right) >>> 1]!;
-    let i = left;
-    let j = right;
-    while (i <= j) {
-      while (a[i]! < pivot) i++;
-      while (a[j]! > pivot) j--;
-      if (i <= j) {
-        const tmp = a[i]!;
-        a[i] = a[j]!;
-        a[j] = tmp;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) right = j;
-    else if (k >= i) left = i;
-    else break;
-  }
-  return a[k]!;
-}
