@@ -70,17 +70,22 @@ function lomaxSurvival(c: Component, x: number): number {
 
 /** Points between exact evaluations in lomaxGrid's recurrence. */
 const LOMAX_RESYNC_POINTS = 32;
-/** lomaxGrid steps g by its series only while p * step / lambda stays below this. */
-const LOMAX_SERIES_LIMIT = 0.02;
+/**
+ * Relative error allowed per step of lomaxGrid's series: over LOMAX_RESYNC_POINTS steps g is
+ * off by under 32 times this, 3.2e-13, well inside the 1e-10 of the grid contract.
+ */
+const LOMAX_STEP_ERROR = 1e-14;
 
 /**
  * A Lomax component's weighted F (or f) added into out at lo + i step. Both are made of
  * g(x) = (1 + v)^-p, v = (x - start) / lambda, with p = alpha for S and alpha + 1 for f. From one
- * point to the next g is multiplied by (1 + e)^-p, e = (step / lambda) / (1 + v) <= step / lambda;
- * while p e <= LOMAX_SERIES_LIMIT that factor's binomial series to e^6 is exact to about
- * (p e)^7 / 5040 < 3e-16, and g is recomputed exactly every LOMAX_RESYNC_POINTS points, so
- * no exp or log is needed in between. A narrow component (large p step / lambda) is
- * evaluated point by point.
+ * point to the next g is multiplied by (1 + e)^-p, e = (step / lambda) / (1 + v), which shrinks
+ * along the grid. Once e is small enough that the factor's binomial series to e^6 is off by
+ * under LOMAX_STEP_ERROR (the series alternates with falling terms there, so its first omitted
+ * term, p (p + 1) ... (p + 6) / 7! e^7, bounds the error), g is stepped by that series and
+ * recomputed exactly every LOMAX_RESYNC_POINTS points; before that, near the component's
+ * start, every point is evaluated exactly. So a wide grid needs an exp and a log only for its
+ * first points.
  */
 function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean, step: number): void {
   const n = out.length;
@@ -91,7 +96,6 @@ function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean
   const base = density ? 0 : c.weight;
   const first = Math.max(0, Math.ceil((c.location - lo) / step));
   const delta = step / lambda;
-  const series = p * delta <= LOMAX_SERIES_LIMIT;
   // Binomial coefficients of (1 + e)^-p: 1 - p e + p (p + 1) / 2 e^2 - ...
   const c1 = -p;
   const c2 = (-c1 * (p + 1)) / 2;
@@ -99,15 +103,22 @@ function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean
   const c4 = (-c3 * (p + 3)) / 4;
   const c5 = (-c4 * (p + 4)) / 5;
   const c6 = (-c5 * (p + 5)) / 6;
+  const c7 = (-c6 * (p + 6)) / 7;
+  const seriesLimit = Math.pow(LOMAX_STEP_ERROR / Math.abs(c7), 1 / 7);
   let g = 0;
+  let stepped = LOMAX_RESYNC_POINTS;
   for (let i = first; i < n; i++) {
     const onePlusV = 1 + (lo + i * step - c.location) / lambda;
-    if (!series || (i - first) % LOMAX_RESYNC_POINTS === 0) g = Math.exp(-p * Math.log(onePlusV));
-    out[i]! += base + factor * g;
-    if (series) {
-      const e = delta / onePlusV;
-      g *= 1 + e * (c1 + e * (c2 + e * (c3 + e * (c4 + e * (c5 + e * c6)))));
+    if (stepped >= LOMAX_RESYNC_POINTS) {
+      g = Math.exp(-p * Math.log(onePlusV));
+      stepped = 0;
     }
+    out[i]! += base + factor * g;
+    const e = delta / onePlusV;
+    if (e <= seriesLimit) {
+      g *= 1 + e * (c1 + e * (c2 + e * (c3 + e * (c4 + e * (c5 + e * c6)))));
+      stepped++;
+    } else stepped = LOMAX_RESYNC_POINTS;
   }
 }
 
