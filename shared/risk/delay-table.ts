@@ -584,38 +584,66 @@ function holds(dist: DelayDistribution, test: number, level: number, x: number):
   return test === CDF_ABOVE ? f > level : f >= level;
 }
 
+// S(x) for SURVIVAL_AT_MOST, else F(x): the value the predicate tests.
+function tested(dist: DelayDistribution, test: number, x: number): number {
+  return test === SURVIVAL_AT_MOST ? dist.survival(x) : dist.cdf(x);
+}
+
+function passes(test: number, level: number, value: number): boolean {
+  return test === SURVIVAL_AT_MOST ? value <= level : test === CDF_ABOVE ? value > level : value >= level;
+}
+
+// The tested value on a scale where a Gumbel-like tail is linear in x and falls as x grows:
+// log S in the right tail, log(-log F) in the left (-log F = e^{-z} for a Gumbel). Used only to
+// aim the next probe, never to decide the predicate.
+function aimScale(test: number, value: number): number {
+  return test === SURVIVAL_AT_MOST ? Math.log(value) : Math.log(-Math.log(value));
+}
+
+/** Value-guided probes findFirst makes from a guess before it falls back to halving. */
+const AIMED_PROBES = 8;
+
 /**
  * The first whole minute in [a0, b0] where the monotone predicate (test, level) holds, b0
- * counting as holding. With a guess, the bracket grows from it in doubling steps before it is
- * halved: fewer evaluations when the answer is near, the same answer. (A predicate code rather
- * than a closure: a closure made per table is a new call target each time.)
+ * counting as holding. With a guess (a nearby draw's answer), each probe is aimed by the secant
+ * through the last two values on aimScale, or is the neighbour of the bracket's end when the
+ * secant points past it, so that the usual answer is bracketed in about four evaluations; after
+ * AIMED_PROBES, or without a guess, the bracket is halved. The predicate alone decides, and it
+ * is monotone, so the answer does not depend on the guess. (A predicate code rather than a
+ * closure: a closure made per table is a new call target each time.)
  */
 function findFirst(dist: DelayDistribution, test: number, level: number, a0: number, b0: number, guess: number | undefined): number {
-  let a: number; // the predicate fails here (a0 - 1 stands for "below the range")
-  let b: number; // and holds here
+  let a = a0 - 1; // the predicate fails here (a0 - 1 stands for "below the range")
+  let b = b0; // and holds here
   if (guess === undefined || !(guess > a0 && guess < b0)) {
     if (holds(dist, test, level, a0)) return a0;
     a = a0;
-    b = b0;
-  } else if (guess >= b0 || holds(dist, test, level, guess)) {
-    b = guess;
-    a = a0 - 1;
-    for (let step = 1; b - step >= a0; step *= 2) {
-      if (!(b - step >= b0 || holds(dist, test, level, b - step))) {
-        a = b - step;
-        break;
-      }
-      b -= step;
-    }
   } else {
-    a = guess;
-    b = b0;
-    for (let step = 1; a + step < b0; step *= 2) {
-      if (a + step >= b0 || holds(dist, test, level, a + step)) {
-        b = a + step;
-        break;
+    const target = aimScale(test, level);
+    let x = guess;
+    let previousX = NaN;
+    let previousV = NaN;
+    let step = 1;
+    for (let probes = 0; probes < AIMED_PROBES && b - a > 1; probes++) {
+      const value = tested(dist, test, x);
+      const ok = passes(test, level, value);
+      if (ok) b = x;
+      else a = x;
+      if (b - a <= 1) break;
+      const v = aimScale(test, value);
+      let next: number;
+      if (Number.isFinite(v) && Number.isFinite(previousV) && v !== previousV) {
+        // The secant's first holding minute, or the bracket end's neighbour when it lies outside.
+        const estimate = Math.ceil(x + ((target - v) * (x - previousX)) / (v - previousV));
+        next = estimate >= b ? b - 1 : estimate <= a ? a + 1 : estimate;
+      } else {
+        // Nothing to aim with yet (or a value of 0 or 1): steps that double away from the guess.
+        next = ok ? Math.max(a + 1, b - step) : Math.min(b - 1, a + step);
+        step *= 2;
       }
-      a += step;
+      previousX = x;
+      previousV = v;
+      x = next;
     }
   }
   while (b - a > 1) {

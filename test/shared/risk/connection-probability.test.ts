@@ -492,3 +492,30 @@ describe('draws wider than the grid', () => {
     for (const m of [0, 30, 90]) closeTo(drawMakeProbability(a, d, m), wideReference(a, d, m), 2e-3, `m=${m}`);
   });
 });
+
+describe('grid searches started from the draw before', () => {
+  // A route's tables are built in draw order, each starting its three grid searches (first
+  // minute with F > 1e-10, S <= 1e-7, S <= 1e-2) where the table before ended; a table built
+  // with no such start halves its brackets from the search bounds. Both must land on the same
+  // minutes, whatever the shapes: the predicates are monotone.
+  function route(kind: 'arrival' | 'departure', draw: (s: number) => TailMixtureDistribution, drawCount: number) {
+    return new RouteTables({ origin: 'BOS', destination: 'CDG', kind, pooling: 'population', flights: 0, derived: false, drawCount, draw }, drawCount);
+  }
+  const rng = createRng(23);
+  // Population-like spreads: log scales from about 0 to 6 (1 to 400 minutes), tail weights
+  // from a few percent to a half, Lomax indices from 0.3 to 30.
+  const etas = Array.from({ length: 40 }, () => [30 * rng.normal(), 3 + 1.5 * rng.normal(), 40 * rng.normal(), 3 + 1.2 * rng.normal(), -1 + 1.5 * rng.normal(), 3 + 1.5 * rng.normal(), 1 + 1.2 * rng.normal(), rng.normal()]);
+  it.each(['gumbel-gumbel', 'gumbel-lomax', 'gumbel-gumbel-lomax'] as const)('%s', (family) => {
+    for (const kind of ['arrival', 'departure'] as const) {
+      const draws = etas.map((eta) => new TailMixtureDistribution(family, eta, 4, kind === 'departure' ? 6.1 : 0));
+      const tables = route(kind, (s) => draws[s]!, draws.length);
+      draws.forEach((dist, t) => {
+        const hinted = tables.table(t);
+        const fresh = new DrawTable(dist, kind === 'arrival' ? 'cdf' : 'density');
+        expect(hinted.searched, `${family} ${kind} draw ${t}`).toEqual(fresh.searched);
+        expect([hinted.lo, hinted.hi, hinted.coreLength]).toEqual([fresh.lo, fresh.hi, fresh.coreLength]);
+        expect(Array.from(hinted.cdf)).toEqual(Array.from(fresh.cdf));
+      });
+    }
+  });
+});
