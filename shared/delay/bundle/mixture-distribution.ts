@@ -8,7 +8,7 @@ import type { Rng } from '../../inference/rng';
 import { addGumbelGrid, addGumbelSurvivals, gumbelLogPdf, gumbelPdf, gumbelSample, oneMinusExpNeg } from '../gumbel';
 import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
-import { componentIndex } from '../mixture';
+import { componentIndex, withinComponent } from '../mixture';
 import type { DelayDistribution } from '../predictive';
 
 type ComponentKind = 'gumbel' | 't' | 'lomax';
@@ -269,18 +269,28 @@ export class TailMixtureDistribution implements DelayDistribution {
       });
   }
 
+  // A Gumbel or Lomax part is inverted at the uniform left over from choosing it
+  // (withinComponent); a Student-t part draws its own.
   sample(rng: Rng): number {
-    return componentSample(this.parts[componentIndex(this.weights, rng.uniform())]!, rng);
+    const u = rng.uniform();
+    const k = componentIndex(this.weights, u);
+    const c = this.parts[k]!;
+    if (c.kind === 'gumbel') return c.location - c.scale * Math.log(-Math.log(withinComponent(this.weights, u, k)));
+    if (c.kind === 'lomax') return c.location + c.scale * Math.expm1(-Math.log(withinComponent(this.weights, u, k)) / c.shape);
+    return componentSample(c, rng);
   }
 
   /** As sample, in place (see DelayDistribution.sampleInto). */
   sampleInto(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
+    const weights = this.weights;
     for (let i = start; i < out.length; i += stride) {
-      // componentSample's Gumbel and Lomax formulas inline: called, it returns each draw boxed
-      // when V8 does not inline it (14 MB more per 1,000-traveller scoring run, measured).
-      const c = this.parts[componentIndex(this.weights, rng.uniform())]!;
-      if (c.kind === 'gumbel') out[i] = Math.min(cap, c.location - c.scale * Math.log(-Math.log(rng.uniform())));
-      else if (c.kind === 'lomax') out[i] = Math.min(cap, c.location + c.scale * Math.expm1(-Math.log(rng.uniform()) / c.shape));
+      // sample's formulas inline: called, it returns each draw boxed when V8 does not inline it
+      // (14 MB more per 1,000-traveller scoring run, measured).
+      const u = rng.uniform();
+      const k = componentIndex(weights, u);
+      const c = this.parts[k]!;
+      if (c.kind === 'gumbel') out[i] = Math.min(cap, c.location - c.scale * Math.log(-Math.log(withinComponent(weights, u, k))));
+      else if (c.kind === 'lomax') out[i] = Math.min(cap, c.location + c.scale * Math.expm1(-Math.log(withinComponent(weights, u, k)) / c.shape));
       else out[i] = Math.min(cap, componentSample(c, rng));
     }
   }

@@ -110,6 +110,24 @@ describe('TailMixtureDistribution on a grid, extreme draws', () => {
   });
 });
 
+describe.each(FAMILIES)('TailMixtureDistribution %s sampled', (family) => {
+  // Kolmogorov-Smirnov against the distribution's own cdf (whose parts are checked above and in
+  // gumbel.test.ts): with n = 20,000, sup |F_n - F| exceeds 1.95 / sqrt(n) with probability
+  // about 0.001 (Smirnov's asymptotic distribution).
+  it('draws from its distribution', () => {
+    const dist = new TailMixtureDistribution(family, randomEta(family, 17), 4, 6.1);
+    const rng = createRng(29);
+    const n = 20_000;
+    const xs = Float64Array.from({ length: n }, () => dist.sample(rng)).sort();
+    let d = 0;
+    xs.forEach((x, i) => {
+      const F = dist.cdf(x);
+      d = Math.max(d, Math.abs(F - i / n), Math.abs(F - (i + 1) / n));
+    });
+    expect(d).toBeLessThan(1.95 / Math.sqrt(n));
+  });
+});
+
 describe.each(FAMILIES)('TailMixtureDistribution %s sampled in place', (family) => {
   it('gives the values of sample() called in turn, capped, at every stride-th place only', () => {
     const dist = new TailMixtureDistribution(family, randomEta(family, 11), 4, 2);
