@@ -45,21 +45,22 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
     sum += w[i]! * (f0 + (far[j + 1]! - f0) * ((offset & FAR_MASK) * FAR_FRACTION));
   }
   for (let i = farEnd; i < coreLength; i++) sum += w[i]! * beyondHi;
+  // The tail nodes ascend, so they fall into runs: below A's grid (F_A = 0, nothing to add), on
+  // its whole-minute table, among its far points, past hi_A. A loop per run rather than a branch
+  // per node; the terms are added in the same order either way.
   const tail = departure.tailIndex;
   const tw = departure.tailWeight;
-  for (let k = 0; k < tail.length; k++) {
-    const j = tail[k]! + shift;
-    if (j < 0) continue;
-    const x = m + lo + tail[k]!;
-    if (j < nA) sum += tw[k]! * fa[j]!;
-    else if (x >= hiA) sum += tw[k]! * beyondHi;
-    else {
-      const offset = x - top;
-      const b = offset >> FAR_SHIFT;
-      const f0 = far[b]!;
-      sum += tw[k]! * (f0 + (far[b + 1]! - f0) * ((offset & FAR_MASK) * FAR_FRACTION));
-    }
+  const nTail = tail.length;
+  let k = 0;
+  while (k < nTail && tail[k]! + shift < 0) k++;
+  for (; k < nTail && tail[k]! + shift < nA; k++) sum += tw[k]! * fa[tail[k]! + shift]!;
+  for (; k < nTail && m + lo + tail[k]! < hiA; k++) {
+    const offset = m + lo + tail[k]! - top;
+    const b = offset >> FAR_SHIFT;
+    const f0 = far[b]!;
+    sum += tw[k]! * (f0 + (far[b + 1]! - f0) * ((offset & FAR_MASK) * FAR_FRACTION));
   }
+  for (; k < nTail; k++) sum += tw[k]! * beyondHi;
   // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under S_D(hi_D).
   sum += departure.highMass * arrival.cdfAt(m + departure.hi);
   return Math.min(1, sum);
