@@ -12,6 +12,7 @@ import {
 } from '../../../shared/risk/connection-probability';
 import { DrawTable, RouteTables } from '../../../shared/risk/delay-table';
 import { TailMixtureDistribution } from '../../../shared/delay/bundle/mixture-distribution';
+import { FAMILY_PARAMETERS } from '../../../shared/delay/models/tail-mixture';
 import { gumbelDelay, gumbelRoute } from '../../fixtures/risk/synthetic-source';
 import { createRng, type Rng } from '../../../shared/inference/rng';
 
@@ -505,9 +506,9 @@ describe('grid searches started from the draw before', () => {
   // Population-like spreads: log scales from about 0 to 6 (1 to 400 minutes), tail weights
   // from a few percent to a half, Lomax indices from 0.3 to 30.
   const etas = Array.from({ length: 40 }, () => [30 * rng.normal(), 3 + 1.5 * rng.normal(), 40 * rng.normal(), 3 + 1.2 * rng.normal(), -1 + 1.5 * rng.normal(), 3 + 1.5 * rng.normal(), 1 + 1.2 * rng.normal(), rng.normal()]);
-  it.each(['gumbel-gumbel', 'gumbel-lomax', 'gumbel-gumbel-lomax'] as const)('%s', (family) => {
+  it.each(['gumbel', 'gumbel-gumbel', 'gumbel-t', 'gumbel-lomax', 'gumbel-gumbel-lomax'] as const)('%s', (family) => {
     for (const kind of ['arrival', 'departure'] as const) {
-      const draws = etas.map((eta) => new TailMixtureDistribution(family, eta, 4, kind === 'departure' ? 6.1 : 0));
+      const draws = etas.map((eta) => new TailMixtureDistribution(family, eta.slice(0, FAMILY_PARAMETERS[family].length), 4, kind === 'departure' ? 6.1 : 0));
       const tables = route(kind, (s) => draws[s]!, draws.length);
       draws.forEach((dist, t) => {
         const hinted = tables.table(t);
