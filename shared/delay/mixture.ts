@@ -25,6 +25,11 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
 }
 
 type Component = DelayDistribution & GridEvaluation;
+
+/** MixtureDistribution.weighted's function codes. */
+const CDF = 0;
+const SURVIVAL = 1;
+const PDF = 2;
 type Jump = readonly [number, number, number];
 
 /**
@@ -72,29 +77,31 @@ class MixtureDistribution implements DelayDistribution, GridEvaluation {
     this.densityJumps = this.jumps.length > 0 ? mixtureJumps : undefined;
   }
 
-  // Plain loops rather than a helper taking a closure: the risk tables call these thousands
-  // of times per route, and a closure per call is garbage.
   cdf(x: number): number {
-    if (Number.isNaN(x)) return NaN;
-    const { comps, ws } = this;
-    let s = 0;
-    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.cdf(x);
-    return s;
+    return this.weighted(x, CDF);
   }
 
   survival(x: number): number {
-    if (Number.isNaN(x)) return NaN;
-    const { comps, ws } = this;
-    let s = 0;
-    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.survival(x);
-    return s;
+    return this.weighted(x, SURVIVAL);
   }
 
   pdf(x: number): number {
+    return this.weighted(x, PDF);
+  }
+
+  // The weighted sum of the components' CDF, survival or density at x. A function code rather
+  // than a closure: the risk tables call these thousands of times per route, and a closure per
+  // call is garbage.
+  private weighted(x: number, part: number): number {
     if (Number.isNaN(x)) return NaN;
     const { comps, ws } = this;
     let s = 0;
-    for (let k = 0; k < comps.length; k++) if (ws[k]! > 0) s += ws[k]! * comps[k]!.pdf(x);
+    for (let k = 0; k < comps.length; k++) {
+      const w = ws[k]!;
+      if (!(w > 0)) continue;
+      const d = comps[k]!;
+      s += w * (part === CDF ? d.cdf(x) : part === SURVIVAL ? d.survival(x) : d.pdf(x));
+    }
     return s;
   }
 
