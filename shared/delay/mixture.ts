@@ -25,12 +25,12 @@ export function mixtureDistribution(components: readonly (DelayDistribution & Gr
 }
 
 type Component = DelayDistribution & GridEvaluation;
+type Jump = readonly [number, number, number];
 
 /** MixtureDistribution.weighted's function codes. */
 const CDF = 0;
 const SURVIVAL = 1;
 const PDF = 2;
-type Jump = readonly [number, number, number];
 
 /**
  * A class rather than an object of closures: the risk engine makes one mixture per posterior

@@ -304,7 +304,7 @@ export function centralInterval(values: ArrayLike<number>, level: number): [numb
   return [lo, selectQuantile(work, n, (1 + level) / 2)];
 }
 
-// Sorted in place here: scoring takes an interval of every connection and trip.
+// Selected in place here: scoring takes an interval of every connection and trip.
 let intervalScratch = new Float64Array(64);
 
 /** Quantile p of ascending values, Hyndman & Fan definition 7 (R's and NumPy's default). */

@@ -578,12 +578,6 @@ const CDF_ABOVE = 0;
 const SURVIVAL_AT_MOST = 1;
 const CDF_AT_LEAST = 2;
 
-function holds(dist: DelayDistribution, test: number, level: number, x: number): boolean {
-  if (test === SURVIVAL_AT_MOST) return dist.survival(x) <= level;
-  const f = dist.cdf(x);
-  return test === CDF_ABOVE ? f > level : f >= level;
-}
-
 // S(x) for SURVIVAL_AT_MOST, else F(x): the value the predicate tests.
 function tested(dist: DelayDistribution, test: number, x: number): number {
   return test === SURVIVAL_AT_MOST ? dist.survival(x) : dist.cdf(x);
@@ -591,6 +585,10 @@ function tested(dist: DelayDistribution, test: number, x: number): number {
 
 function passes(test: number, level: number, value: number): boolean {
   return test === SURVIVAL_AT_MOST ? value <= level : test === CDF_ABOVE ? value > level : value >= level;
+}
+
+function holds(dist: DelayDistribution, test: number, level: number, x: number): boolean {
+  return passes(test, level, tested(dist, test, x));
 }
 
 // The tested value on a scale where a Gumbel-like tail is linear in x and falls as x grows:

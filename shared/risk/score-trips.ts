@@ -233,7 +233,8 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
   const scoredConnections: ScoredConnection[][] = [];
   const allMakeByDraw: Float64Array[] = [];
   const simTrips: SimTrip[] = [];
-  // P(all connections) per trip and draw, in one block (a typed array each is an off-heap store each).
+  // P(all connections) per trip and draw, in one block: a typed array per trip would get an
+  // off-heap store of its own.
   const allMake = new Float64Array(parsed.trips.length * draws).fill(1);
   parsed.trips.forEach((trip, tripIndex) => {
     const rebookGap = options.rebookGapByTrip?.[trip.id] ?? settings.rebookGap;
