@@ -82,9 +82,35 @@ export function gumbelVariance(mu: number, beta: number): number {
   return invalid(mu, beta) ? NaN : (Math.PI * Math.PI * beta * beta) / 6;
 }
 
-/** weight * S(xs[k]) added into out[k] for k < count, as gumbelSurvival computes S; parameters assumed valid. */
+/** How often addGumbelSurvivals recomputes e^{-z} instead of stepping it (nodes). */
+const SURVIVAL_RESYNC_NODES = 8;
+
+/**
+ * weight * S(xs[k]) added into out[k] for k < count, S = 1 - exp(-e^{-z}) as gumbelSurvival
+ * computes it, except that e^{-z} is stepped from node to node by e^{-h/beta} (one exp per
+ * distinct gap h; the risk tables' tail nodes have a handful) and recomputed every
+ * SURVIVAL_RESYNC_NODES nodes. It differs from gumbelSurvival by rounding in z = (x - mu) / beta,
+ * a relative difference of order z 2^-53 (1e-14 at z = 76, where S is 1e-33); both are that
+ * close to exact, as rounding z alone moves e^{-z} by as much. Parameters assumed valid.
+ */
 export function addGumbelSurvivals(xs: Int32Array, count: number, out: Float64Array, mu: number, beta: number, weight: number): void {
-  for (let k = 0; k < count; k++) out[k] = out[k]! + weight * oneMinusExpNeg(Math.exp(-(xs[k]! - mu) / beta));
+  let t = 0;
+  let gap = NaN;
+  let ratio = 1;
+  for (let k = 0; k < count; k++) {
+    const x = xs[k]!;
+    // Recomputed now and then, and wherever e^{-z} overflowed far below the location.
+    if (k % SURVIVAL_RESYNC_NODES === 0 || !(t < Infinity)) t = Math.exp(-(x - mu) / beta);
+    else {
+      const h = x - xs[k - 1]!;
+      if (h !== gap) {
+        gap = h;
+        ratio = Math.exp(-h / beta);
+      }
+      t *= ratio;
+    }
+    out[k] = out[k]! + weight * oneMinusExpNeg(t);
+  }
 }
 
 /** How often addGumbelGrid recomputes e^{-z} instead of stepping it (points). */
@@ -194,7 +220,6 @@ class GumbelDistribution implements DelayDistribution, GridEvaluation {
     addGumbelGrid(out, lo, step, this.location, this.scale, weight, density);
   }
 
-  // 0 + 1 * S is S exactly, so this gives survival's values.
   survivalAt(xs: Int32Array, count: number, out: Float64Array): void {
     out.fill(0, 0, count);
     addGumbelSurvivals(xs, count, out, this.location, this.scale, 1);

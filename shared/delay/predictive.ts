@@ -48,9 +48,10 @@ export interface GridEvaluation {
    */
   addGrid?(lo: number, out: Float64Array, step: number, weight: number, density: boolean): void;
   /**
-   * S at the whole minutes xs[0], ..., xs[count - 1] into out[0..count), the same values as
-   * survival(x) in the same order of operations: the risk tables' tail nodes, dozens per table,
-   * each of which a call of survival would return boxed.
+   * S at the whole minutes xs[0], ..., xs[count - 1] into out[0..count), equal to survival(x)
+   * to rounding (relative differences of order 1e-14 far into a tail; tested to 1e-13): the risk
+   * tables' tail nodes, dozens per table, each of which a call of survival would return boxed
+   * (and a Gumbel can step its terms from node to node).
    */
   survivalAt?(xs: Int32Array, count: number, out: Float64Array): void;
   /** weight * S(xs[k]) added into out[k], for k < count (a mixture sums its components so). */

@@ -142,13 +142,13 @@ describe('Gumbel on a grid (the risk tables use it) against @stdlib/stats-base-d
     }
   });
 
-  it('survivalAt gives survival at each node exactly, and 1 - F within 1e-13 (@stdlib/stats-base-dists-gumbel)', () => {
+  it('survivalAt gives survival at each node within 1e-13 relative, and 1 - F within 1e-13 (@stdlib/stats-base-dists-gumbel)', () => {
     const dist = gumbelDistribution(5, 12);
     const xs = Int32Array.from([-200, -30, 0, 5, 17, 60, 240, 480, 900]);
     const out = new Float64Array(xs.length + 1).fill(-1);
     dist.survivalAt!(xs, xs.length, out);
     xs.forEach((x, k) => {
-      expect(out[k]).toBe(dist.survival(x));
+      expect(Math.abs(out[k]! - dist.survival(x))).toBeLessThanOrEqual(1e-13 * dist.survival(x));
       expect(Math.abs(out[k]! - (1 - stdlibGumbel.cdf(x, 5, 12)))).toBeLessThanOrEqual(1e-13);
     });
     // Far in the tail S keeps its relative precision, which 1 - F loses: S(480) = -expm1(-e^{-z}).
@@ -156,7 +156,21 @@ describe('Gumbel on a grid (the risk tables use it) against @stdlib/stats-base-d
     expect(out[xs.length]).toBe(-1);
     const added = new Float64Array(xs.length).fill(0.5);
     dist.addSurvivalAt!(xs, xs.length, added, 0.25);
-    xs.forEach((x, k) => expect(added[k]).toBe(0.5 + 0.25 * dist.survival(x)));
+    xs.forEach((x, k) => expect(Math.abs(added[k]! - (0.5 + 0.25 * dist.survival(x)))).toBeLessThanOrEqual(1e-15));
+  });
+
+  it('survivalAt steps e^{-z} along evenly spaced tail nodes to within 1e-13 of survival, relative', () => {
+    // Tail nodes as the risk tables place them: steps growing from 2 minutes, then constant.
+    const dist = gumbelDistribution(-3, 9.5);
+    const xs = new Int32Array(60);
+    for (let k = 0, x = 20, h = 2; k < xs.length; k++, x += h, h = Math.min(13, Math.ceil(h * 1.5))) xs[k] = x;
+    const out = new Float64Array(xs.length);
+    dist.survivalAt!(xs, xs.length, out);
+    xs.forEach((x, k) => {
+      const s = dist.survival(x);
+      expect(Math.abs(out[k]! - s), `S(${x})`).toBeLessThanOrEqual(1e-13 * s);
+      expect(Math.abs(out[k]! - (1 - stdlibGumbel.cdf(x, -3, 9.5)))).toBeLessThanOrEqual(1e-13);
+    });
   });
 
   it('addGrid adds weight times F or f onto what the row holds', () => {

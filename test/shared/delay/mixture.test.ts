@@ -121,13 +121,13 @@ describe('mixtureDistribution on a grid', () => {
     }
   });
 
-  it('evaluates survival at many nodes at once, equal to survival(x) exactly (@stdlib/stats-base-dists-gumbel)', () => {
+  it('evaluates survival at many nodes at once, within 1e-13 of survival(x) (@stdlib/stats-base-dists-gumbel)', () => {
     const mix = mixtureDistribution([gumbelDistribution(2, 11), gumbelDistribution(30, 45)], [0.9, 0.1]);
     const xs = Int32Array.from([-150, -10, 0, 40, 130, 370, 760, 1500]);
     const out = new Float64Array(xs.length).fill(7);
     mix.survivalAt!(xs, xs.length, out);
     xs.forEach((x, k) => {
-      expect(out[k]).toBe(mix.survival(x));
+      expect(Math.abs(out[k]! - mix.survival(x))).toBeLessThanOrEqual(1e-13 * mix.survival(x));
       expectClose(out[k]!, 0.9 * (1 - stdlibGumbel.cdf(x, 2, 11)) + 0.1 * (1 - stdlibGumbel.cdf(x, 30, 45)), 1e-12, `S(${x})`, 1e-15);
     });
     // Only the first count nodes are written.

@@ -38,12 +38,12 @@ describe.each(FAMILIES)('TailMixtureDistribution %s on a grid', (family) => {
 });
 
 describe.each(FAMILIES)('TailMixtureDistribution %s at scattered nodes', (family) => {
-  it('gives survival(x) exactly at each node (survivalAt)', () => {
+  it('gives survival(x) at each node within 1e-13 relative (survivalAt)', () => {
     const dist = new TailMixtureDistribution(family, randomEta(family, 5), 4, 6.1);
     const xs = Int32Array.from([-2880, -60, -1, 0, 7, 45, 180, 600, 1440, 2880, 7200]);
     const out = new Float64Array(xs.length);
     dist.survivalAt(xs, xs.length, out);
-    xs.forEach((x, k) => expect(out[k], `S(${x})`).toBe(dist.survival(x)));
+    xs.forEach((x, k) => expect(Math.abs(out[k]! - dist.survival(x)), `S(${x})`).toBeLessThanOrEqual(1e-13 * dist.survival(x)));
   });
 });
 
