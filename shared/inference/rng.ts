@@ -1,7 +1,9 @@
 // Seeded pseudo-random numbers for every fit and simulation.
 //
 // xoshiro128** (Blackman & Vigna, "Scrambled linear pseudorandom number generators",
-// 2021) seeded through splitmix32, so any integer seed gives a well-mixed state.
+// 2021) seeded through splitmix32, so any integer seed gives a well-mixed state. Exponential
+// draws by the ziggurat method (Marsaglia & Tsang, "The Ziggurat Method for Generating Random
+// Variables", Journal of Statistical Software 5(8), 2000), 256 layers.
 // Nothing in Layline calls Math.random(): pass an Rng in.
 
 export interface Rng {
@@ -9,6 +11,11 @@ export interface Rng {
   uniform(): number;
   /** Standard normal draw. */
   normal(): number;
+  /**
+   * Standard exponential draw (rate 1), strictly positive: what -log(uniform()) gives in
+   * distribution, at about a third of its cost (no log for 99% of draws).
+   */
+  exponential(): number;
   /** Uniform integer in [0, n). */
   int(n: number): number;
   /** A new generator whose stream is independent of this one's for practical purposes. */
@@ -72,6 +79,21 @@ class Xoshiro128 implements Rng {
     return (hi * 67108864 + lo + 0.5) / 9007199254740992;
   }
 
+  exponential(): number {
+    // Layer i from the low 8 bits; the whole word places the point in the layer, accepted at
+    // once when it lies inside the layer's rectangle. The +0.5 keeps the draw above 0.
+    for (;;) {
+      const j = this.nextBits() >>> 0;
+      const i = j & 255;
+      if (j < ZIGGURAT_K[i]!) return (j + 0.5) * ZIGGURAT_W[i]!;
+      // The base layer's tail beyond R is R plus an exponential (memorylessness).
+      if (i === 0) return ZIGGURAT_R - Math.log(this.uniform());
+      // The wedge above the rectangle: accept under the density.
+      const x = (j + 0.5) * ZIGGURAT_W[i]!;
+      if (ZIGGURAT_F[i]! + this.uniform() * (ZIGGURAT_F[i - 1]! - ZIGGURAT_F[i]!) < Math.exp(-x)) return x;
+    }
+  }
+
   normal(): number {
     // Marsaglia's polar method; caches the second draw of each pair.
     if (!Number.isNaN(this.spareNormal)) {
@@ -99,6 +121,35 @@ class Xoshiro128 implements Rng {
 
   split(): Rng {
     return new Xoshiro128(this.nextUint32() ^ 0x5bd1e995);
+  }
+}
+
+// The exponential ziggurat's tables (Marsaglia & Tsang's zigset for the exponential): the
+// right edge of the base layer R and the common layer area V for 256 layers; per layer, the
+// acceptance threshold on a 32-bit word (K), the word-to-x scale (W) and the density at the
+// layer's right edge (F).
+const ZIGGURAT_R = 7.697117470131487;
+const ZIGGURAT_V = 3.949659822581572e-3;
+const ZIGGURAT_K = new Uint32Array(256);
+const ZIGGURAT_W = new Float64Array(256);
+const ZIGGURAT_F = new Float64Array(256);
+{
+  const m = 4294967296;
+  let x = ZIGGURAT_R;
+  let previous = x;
+  const q = ZIGGURAT_V / Math.exp(-x);
+  ZIGGURAT_K[0] = Math.floor((x / q) * m);
+  ZIGGURAT_K[1] = 0;
+  ZIGGURAT_W[0] = q / m;
+  ZIGGURAT_W[255] = x / m;
+  ZIGGURAT_F[0] = 1;
+  ZIGGURAT_F[255] = Math.exp(-x);
+  for (let i = 254; i >= 1; i--) {
+    x = -Math.log(ZIGGURAT_V / x + Math.exp(-x));
+    ZIGGURAT_K[i + 1] = Math.floor((x / previous) * m);
+    previous = x;
+    ZIGGURAT_F[i] = Math.exp(-x);
+    ZIGGURAT_W[i] = x / m;
   }
 }
 

@@ -5,10 +5,10 @@
 // the whole distribution (departure delays derived from arrival delays add the en-route
 // recovery offset).
 import type { Rng } from '../../inference/rng';
-import { addGumbelGrid, addGumbelSurvivals, gumbelLogPdf, gumbelPdf, gumbelSample, oneMinusExpNeg } from '../gumbel';
+import { addGumbelGrid, addGumbelSurvivals, gumbelExponentialSample, gumbelLogPdf, gumbelPdf, oneMinusExpNeg } from '../gumbel';
 import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
-import { componentIndex, withinComponent } from '../mixture';
+import { componentIndex } from '../mixture';
 import type { DelayDistribution } from '../predictive';
 
 type ComponentKind = 'gumbel' | 't' | 'lomax';
@@ -154,9 +154,10 @@ function componentLogPdf(c: Component, x: number): number {
 }
 
 function componentSample(c: Component, rng: Rng): number {
-  if (c.kind === 'gumbel') return gumbelSample(rng, c.location, c.scale);
+  if (c.kind === 'gumbel') return gumbelExponentialSample(rng, c.location, c.scale);
   if (c.kind === 't') return studentTSample(rng, c.location, c.scale, c.shape);
-  return c.location + c.scale * Math.expm1(-Math.log(rng.uniform()) / c.shape);
+  // Lomax by inversion, S^-1(U) = start + lambda (U^(-1/alpha) - 1), with E = -log U.
+  return c.location + c.scale * Math.expm1(rng.exponential() / c.shape);
 }
 
 /**
@@ -269,28 +270,19 @@ export class TailMixtureDistribution implements DelayDistribution {
       });
   }
 
-  // A Gumbel or Lomax part is inverted at the uniform left over from choosing it
-  // (withinComponent); a Student-t part draws its own.
   sample(rng: Rng): number {
-    const u = rng.uniform();
-    const k = componentIndex(this.weights, u);
-    const c = this.parts[k]!;
-    if (c.kind === 'gumbel') return c.location - c.scale * Math.log(-Math.log(withinComponent(this.weights, u, k)));
-    if (c.kind === 'lomax') return c.location + c.scale * Math.expm1(-Math.log(withinComponent(this.weights, u, k)) / c.shape);
-    return componentSample(c, rng);
+    return componentSample(this.parts[componentIndex(this.weights, rng.uniform())]!, rng);
   }
 
   /** As sample, in place (see DelayDistribution.sampleInto). */
   sampleInto(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
     const weights = this.weights;
     for (let i = start; i < out.length; i += stride) {
-      // sample's formulas inline: called, it returns each draw boxed when V8 does not inline it
-      // (14 MB more per 1,000-traveller scoring run, measured).
-      const u = rng.uniform();
-      const k = componentIndex(weights, u);
-      const c = this.parts[k]!;
-      if (c.kind === 'gumbel') out[i] = Math.min(cap, c.location - c.scale * Math.log(-Math.log(withinComponent(weights, u, k))));
-      else if (c.kind === 'lomax') out[i] = Math.min(cap, c.location + c.scale * Math.expm1(-Math.log(withinComponent(weights, u, k)) / c.shape));
+      // componentSample's Gumbel and Lomax formulas inline: called, it returns each draw boxed
+      // when V8 does not inline it (14 MB more per 1,000-traveller scoring run, measured).
+      const c = this.parts[componentIndex(weights, rng.uniform())]!;
+      if (c.kind === 'gumbel') out[i] = Math.min(cap, c.location - c.scale * Math.log(rng.exponential()));
+      else if (c.kind === 'lomax') out[i] = Math.min(cap, c.location + c.scale * Math.expm1(rng.exponential() / c.shape));
       else out[i] = Math.min(cap, componentSample(c, rng));
     }
   }

@@ -3,7 +3,20 @@
 // variance pi^2 beta^2 / 6.
 import { describe, expect, it } from 'vitest';
 import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
-import { EULER_GAMMA, gumbelCdf, gumbelDistribution, gumbelLogPdf, gumbelMean, gumbelPdf, gumbelQuantile, gumbelSample, gumbelSurvival, gumbelVariance, oneMinusExpNeg } from '../../../shared/delay/gumbel';
+import {
+  EULER_GAMMA,
+  gumbelCdf,
+  gumbelDistribution,
+  gumbelExponentialSample,
+  gumbelLogPdf,
+  gumbelMean,
+  gumbelPdf,
+  gumbelQuantile,
+  gumbelSample,
+  gumbelSurvival,
+  gumbelVariance,
+  oneMinusExpNeg,
+} from '../../../shared/delay/gumbel';
 import { createRng } from '../../../shared/inference/rng';
 import { expectClose } from './close';
 
@@ -112,16 +125,34 @@ describe('Gumbel edge-case contract', () => {
     expect(d.cdf(10)).toBe(gumbelCdf(10, 3, 9));
     expect(d.survival(100)).toBe(gumbelSurvival(100, 3, 9));
     expect(d.pdf(-2)).toBe(gumbelPdf(-2, 3, 9));
-    expect(d.sample(createRng(4))).toBe(gumbelSample(createRng(4), 3, 9));
+    expect(d.sample(createRng(4))).toBe(gumbelExponentialSample(createRng(4), 3, 9));
+  });
+
+  // Kolmogorov-Smirnov: with n = 50,000 draws, sup |F_n - F| exceeds 1.95 / sqrt(n) with
+  // probability about 0.001 under the true F (Smirnov's asymptotic distribution).
+  it.each([
+    ['gumbelSample (inversion)', gumbelSample],
+    ['gumbelExponentialSample (ziggurat exponential)', gumbelExponentialSample],
+  ] as const)('%s draws from the Gumbel (KS against @stdlib/stats-base-dists-gumbel)', (_name, draw) => {
+    const rng = createRng(41);
+    const n = 50_000;
+    const xs = Float64Array.from({ length: n }, () => draw(rng, 4, 13)).sort();
+    let d = 0;
+    xs.forEach((x, i) => {
+      const F = stdlibGumbel.cdf(x, 4, 13);
+      d = Math.max(d, Math.abs(F - i / n), Math.abs(F - (i + 1) / n));
+    });
+    expect(d).toBeLessThan(1.95 / Math.sqrt(n));
   });
 });
 
 describe('gumbelDistribution sampled in place', () => {
-  it('gives the draws of gumbelSample in turn, capped, at every stride-th place only', () => {
+  it('gives the draws of sample() in turn, capped, at every stride-th place only', () => {
     const out = new Float64Array(1000).fill(-1);
     gumbelDistribution(5, 20).sampleInto!(createRng(12), out, 0, 4, 40);
     const rng = createRng(12);
-    for (let i = 0; i < out.length; i++) expect(out[i]).toBe(i % 4 === 0 ? Math.min(40, gumbelSample(rng, 5, 20)) : -1);
+    const dist = gumbelDistribution(5, 20);
+    for (let i = 0; i < out.length; i++) expect(out[i]).toBe(i % 4 === 0 ? Math.min(40, dist.sample(rng)) : -1);
   });
 });
 

@@ -74,3 +74,50 @@ describe('createRng', () => {
     expect(() => createRng(Infinity)).toThrow(RangeError);
   });
 });
+
+// The standard exponential CDF, 1 - e^{-x}, is the closed form checked against (a standard
+// result). Kolmogorov-Smirnov: with n draws, sup |F_n - F| exceeds 1.95 / sqrt(n) with
+// probability about 0.001 under the true F (Smirnov's asymptotic distribution).
+describe('exponential (ziggurat)', () => {
+  it('draws positive values from the standard exponential (KS), with mean and variance 1', () => {
+    const rng = createRng(19);
+    const n = 100_000;
+    const xs = new Float64Array(n);
+    let sum = 0;
+    let sumSq = 0;
+    for (let i = 0; i < n; i++) {
+      const x = rng.exponential();
+      expect(x > 0 && Number.isFinite(x)).toBe(true);
+      xs[i] = x;
+      sum += x;
+      sumSq += x * x;
+    }
+    xs.sort();
+    let d = 0;
+    xs.forEach((x, i) => {
+      const F = -Math.expm1(-x);
+      d = Math.max(d, Math.abs(F - i / n), Math.abs(F - (i + 1) / n));
+    });
+    expect(d).toBeLessThan(1.95 / Math.sqrt(n));
+    const mean = sum / n;
+    // Standard errors 1 / sqrt(n) for the mean and sqrt(8 / n) for the variance (fourth moment 24).
+    expect(Math.abs(mean - 1)).toBeLessThan(4 / Math.sqrt(n));
+    expect(Math.abs(sumSq / n - mean * mean - 1)).toBeLessThan(4 * Math.sqrt(8 / n));
+  });
+
+  it('reaches the tail beyond the base layer at its rate', () => {
+    // P(E > 8) = e^{-8}, past the ziggurat's base layer edge (7.6971), drawn by its tail rule.
+    const rng = createRng(23);
+    const n = 2_000_000;
+    let beyond = 0;
+    for (let i = 0; i < n; i++) if (rng.exponential() > 8) beyond++;
+    const p = Math.exp(-8);
+    expect(Math.abs(beyond / n - p)).toBeLessThan(4 * Math.sqrt((p * (1 - p)) / n));
+  });
+
+  it('is reproducible from the seed', () => {
+    const a = createRng(5);
+    const b = createRng(5);
+    expect(Array.from({ length: 20 }, () => a.exponential())).toEqual(Array.from({ length: 20 }, () => b.exponential()));
+  });
+});
