@@ -306,14 +306,3 @@ export function centralInterval(values: ArrayLike<number>, level: number): [numb
 
 // Selected in place here: scoring takes an interval of every connection and trip.
 let intervalScratch = new Float64Array(64);
-
-/** Quantile p of ascending values, Hyndman & Fan definition 7 (R's and NumPy's default). */
-export function sortedQuantile(sorted: ArrayLike<number>, p: number): number {
-  const n = sorted.length;
-  if (n === 0) return NaN;
-  const h = (n - 1) * p;
-  const i = Math.floor(h);
-  const lo = sorted[i] ?? NaN;
-  const hi = sorted[Math.min(n - 1, i + 1)] ?? NaN;
-  return lo + (h - i) * (hi - lo);
-}

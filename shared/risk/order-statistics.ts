@@ -31,7 +31,7 @@ export function selectInRange(a: Float64Array, from: number, k: number, end: num
 }
 
 /**
- * The p-quantile (Hyndman & Fan definition 7, as sortedQuantile) of a[0..n), reordering it: the
+ * The p-quantile (Hyndman & Fan definition 7, R's type 7) of a[0..n), reordering it: the
  * order statistic at floor((n - 1) p) by selection, and the next one as the smallest value
  * above it. NaN for n = 0; NaN-free input assumed.
  */

@@ -8,8 +8,8 @@ import {
   minimumLayover,
   pMakeAtLayover,
   pMakeIntervalAtLayover,
-  sortedQuantile,
 } from '../../../shared/risk/connection-probability';
+import { sortedQuantile } from './quantile-reference';
 import { DrawTable, RouteTables } from '../../../shared/risk/delay-table';
 import { TailMixtureDistribution } from '../../../shared/delay/bundle/mixture-distribution';
 import { FAMILY_PARAMETERS } from '../../../shared/delay/models/tail-mixture';

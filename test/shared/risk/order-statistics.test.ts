@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { centralInterval, sortedQuantile } from '../../../shared/risk/connection-probability';
+import { centralInterval } from '../../../shared/risk/connection-probability';
+import { sortedQuantile } from './quantile-reference';
 import { selectInRange, selectQuantile } from '../../../shared/risk/order-statistics';
 import { createRng } from '../../../shared/inference/rng';
 

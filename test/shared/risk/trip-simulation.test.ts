@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { sortedQuantile } from '../../../shared/risk/connection-probability';
+import { sortedQuantile } from './quantile-reference';
 import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
 import { gumbelDistribution } from '../../../shared/delay/gumbel';
 import type { DelayDistribution, RoutePosterior } from '../../../shared/delay/predictive';
