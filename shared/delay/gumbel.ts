@@ -9,6 +9,7 @@
 // an invalid parameter (beta <= 0 or not finite, mu not finite) gives NaN; x = ±Infinity
 // gives the limit (cdf 0 or 1, density 0, log density -Infinity).
 import type { Rng } from '../inference/rng';
+import { exponentialRow, strideCount } from './draw-buffers';
 import type { DelayDistribution, GridEvaluation } from './predictive';
 
 export const EULER_GAMMA = 0.5772156649015329;
@@ -209,11 +210,15 @@ class GumbelDistribution implements DelayDistribution, GridEvaluation {
     return gumbelExponentialSample(rng, this.location, this.scale);
   }
 
-  // gumbelExponentialSample's formula inline: called, it returns each draw boxed when V8 does not inline it.
+  // gumbelExponentialSample's formula on the exponentials drawn in bulk (the same stream as
+  // one call each): a draw returned from a call that V8 does not inline is boxed.
   sampleInto(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
     const mu = this.location;
     const beta = this.scale;
-    for (let i = start; i < out.length; i += stride) out[i] = Math.min(cap, mu - beta * Math.log(rng.exponential()));
+    const count = strideCount(out.length, start, stride);
+    const es = exponentialRow(count);
+    rng.exponentials(es, count);
+    for (let k = 0, i = start; k < count; k++, i += stride) out[i] = Math.min(cap, mu - beta * Math.log(es[k]!));
   }
 
   cdfGrid(lo: number, out: Float64Array, step = 1): void {

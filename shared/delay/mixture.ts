@@ -3,6 +3,7 @@
 // cdf, pdf and survival are the weighted sums of the components'; survival sums the
 // components' own survival functions, so the far right tail keeps its precision.
 import type { Rng } from '../inference/rng';
+import { exponentialRow, strideCount, uniformRow } from './draw-buffers';
 import type { DelayDistribution, GridEvaluation } from './predictive';
 
 /**
@@ -116,9 +117,14 @@ class MixtureDistribution implements DelayDistribution, GridEvaluation {
   sampleInto(rng: Rng, out: Float64Array, start: number, stride: number, cap: number): void {
     const { comps, ws, locations, scales } = this;
     if (locations && scales) {
-      for (let i = start; i < out.length; i += stride) {
-        const k = componentIndex(ws, rng.uniform());
-        out[i] = Math.min(cap, locations[k]! - scales[k]! * Math.log(rng.exponential()));
+      // The uniform and exponential of each draw in bulk, in the order the calls would draw them.
+      const count = strideCount(out.length, start, stride);
+      const us = uniformRow(count);
+      const es = exponentialRow(count);
+      rng.uniformExponentialPairs(us, es, count);
+      for (let j = 0, i = start; j < count; j++, i += stride) {
+        const k = componentIndex(ws, us[j]!);
+        out[i] = Math.min(cap, locations[k]! - scales[k]! * Math.log(es[j]!));
       }
       return;
     }

@@ -16,6 +16,14 @@ export interface Rng {
    * distribution, at about a third of its cost (no log for 99% of draws).
    */
   exponential(): number;
+  /**
+   * us[k] = uniform() then es[k] = exponential(), for k < count in turn: the same stream and
+   * values as those calls, in one loop that keeps the state in registers (a draw returned from
+   * a call that V8 does not inline is boxed on the heap, one allocation per draw).
+   */
+  uniformExponentialPairs(us: Float64Array, es: Float64Array, count: number): void;
+  /** out[k] = exponential() for k < count: the same stream and values as the calls. */
+  exponentials(out: Float64Array, count: number): void;
   /** Uniform integer in [0, n). */
   int(n: number): number;
   /** A new generator whose stream is independent of this one's for practical purposes. */
@@ -82,8 +90,14 @@ class Xoshiro128 implements Rng {
   exponential(): number {
     // Layer i from the low 8 bits; the whole word places the point in the layer, accepted at
     // once when it lies inside the layer's rectangle. The +0.5 keeps the draw above 0.
-    for (;;) {
-      const j = this.nextBits() >>> 0;
+    const j = this.nextBits() >>> 0;
+    if (j < ZIGGURAT_K[j & 255]!) return (j + 0.5) * ZIGGURAT_W[j & 255]!;
+    return this.exponentialAfter(j);
+  }
+
+  // exponential() once its first word j fell outside its layer's rectangle.
+  private exponentialAfter(first: number): number {
+    for (let j = first; ; j = this.nextBits() >>> 0) {
       const i = j & 255;
       if (j < ZIGGURAT_K[i]!) return (j + 0.5) * ZIGGURAT_W[i]!;
       // The base layer's tail beyond R is R plus an exponential (memorylessness).
@@ -92,6 +106,75 @@ class Xoshiro128 implements Rng {
       const x = (j + 0.5) * ZIGGURAT_W[i]!;
       if (ZIGGURAT_F[i]! + this.uniform() * (ZIGGURAT_F[i - 1]! - ZIGGURAT_F[i]!) < Math.exp(-x)) return x;
     }
+  }
+
+  uniformExponentialPairs(us: Float64Array, es: Float64Array, count: number): void {
+    this.fill(us, es, count, true);
+  }
+
+  exponentials(out: Float64Array, count: number): void {
+    this.fill(out, out, count, false);
+  }
+
+  // The bulk draws: nextBits and the ziggurat's fast path written out over a local copy of the
+  // state, which goes back to this.s before any slow path calls uniform() and after the loop.
+  private fill(us: Float64Array, es: Float64Array, count: number, withUniform: boolean): void {
+    const state = this.s;
+    let s0 = state[0]!;
+    let s1 = state[1]!;
+    let s2 = state[2]!;
+    let s3 = state[3]!;
+    for (let k = 0; k < count; k++) {
+      if (withUniform) {
+        let word = Math.imul(rotl(Math.imul(s1, 5), 7), 9);
+        let t = s1 << 9;
+        let c = s2 ^ s0;
+        let d = s3 ^ s1;
+        s1 ^= c;
+        s0 ^= d;
+        s2 = c ^ t;
+        s3 = rotl(d, 11) | 0;
+        const hi = word >>> 5;
+        word = Math.imul(rotl(Math.imul(s1, 5), 7), 9);
+        t = s1 << 9;
+        c = s2 ^ s0;
+        d = s3 ^ s1;
+        s1 ^= c;
+        s0 ^= d;
+        s2 = c ^ t;
+        s3 = rotl(d, 11) | 0;
+        us[k] = (hi * 67108864 + (word >>> 6) + 0.5) / 9007199254740992;
+      }
+      const word = Math.imul(rotl(Math.imul(s1, 5), 7), 9);
+      const t = s1 << 9;
+      const c = s2 ^ s0;
+      const d = s3 ^ s1;
+      s1 ^= c;
+      s0 ^= d;
+      s2 = c ^ t;
+      s3 = rotl(d, 11) | 0;
+      const j = word >>> 0;
+      const i = j & 255;
+      if (j < ZIGGURAT_K[i]!) {
+        es[k] = (j + 0.5) * ZIGGURAT_W[i]!;
+        continue;
+      }
+      // Rare (about 1 draw in 100): the rest of exponential() on the stored state, as from
+      // its second word on.
+      state[0] = s0;
+      state[1] = s1;
+      state[2] = s2;
+      state[3] = s3;
+      es[k] = this.exponentialAfter(j);
+      s0 = state[0]!;
+      s1 = state[1]!;
+      s2 = state[2]!;
+      s3 = state[3]!;
+    }
+    state[0] = s0;
+    state[1] = s1;
+    state[2] = s2;
+    state[3] = s3;
   }
 
   normal(): number {

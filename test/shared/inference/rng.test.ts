@@ -121,3 +121,41 @@ describe('exponential (ziggurat)', () => {
     expect(Array.from({ length: 20 }, () => a.exponential())).toEqual(Array.from({ length: 20 }, () => b.exponential()));
   });
 });
+
+describe('bulk draws', () => {
+  // Enough draws that the ziggurat's slow paths (wedges and the tail beyond the base layer,
+  // about 1 draw in 100) come up many times, so their hand-over of the state is exercised.
+  const n = 50_000;
+
+  it('uniformExponentialPairs gives the values and leaves the stream where uniform() then exponential() would', () => {
+    const calls = createRng(99);
+    const bulk = createRng(99);
+    const us = new Float64Array(n);
+    const es = new Float64Array(n);
+    bulk.uniformExponentialPairs(us, es, n);
+    for (let k = 0; k < n; k++) {
+      expect(us[k]).toBe(calls.uniform());
+      expect(es[k]).toBe(calls.exponential());
+    }
+    expect(bulk.uniform()).toBe(calls.uniform());
+  });
+
+  it('exponentials gives the values and leaves the stream where exponential() calls would', () => {
+    const calls = createRng(4);
+    const bulk = createRng(4);
+    const es = new Float64Array(n + 1).fill(-1);
+    bulk.exponentials(es, n);
+    for (let k = 0; k < n; k++) expect(es[k]).toBe(calls.exponential());
+    // Nothing written past count, and the streams agree afterwards.
+    expect(es[n]).toBe(-1);
+    expect(bulk.exponential()).toBe(calls.exponential());
+  });
+
+  it('draws nothing for a count of 0', () => {
+    const a = createRng(8);
+    const b = createRng(8);
+    a.exponentials(new Float64Array(0), 0);
+    a.uniformExponentialPairs(new Float64Array(0), new Float64Array(0), 0);
+    expect(a.uniform()).toBe(b.uniform());
+  });
+});
