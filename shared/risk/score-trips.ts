@@ -230,6 +230,26 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     return index;
   };
 
+  // Every route pair's slacks first, so that its P(make) by draw is worked out two slacks at a
+  // time (ConnectionPair.prepare); the same values as one at a time.
+  const slacksOfPair = new Map<ConnectionPair, number[]>();
+  parsed.trips.forEach((trip, tripIndex) => {
+    const routesOfTrip = legRoutes[tripIndex]!;
+    trip.connections.forEach((c, k) => {
+      const inbound = trip.legs[c.inboundLeg] as Leg;
+      const outbound = trip.legs[c.inboundLeg + 1] as Leg;
+      const inRoute = routesOfTrip[c.inboundLeg]!;
+      const outRoute = routesOfTrip[c.inboundLeg + 1]!;
+      const info = routePairOf(inbound, outbound, inRoute, outRoute);
+      if (!isScored(trip, k)) return;
+      const pair = scoredPairOf(info, inbound, outbound, inRoute, outRoute);
+      let slacks = slacksOfPair.get(pair);
+      if (!slacks) slacksOfPair.set(pair, (slacks = []));
+      slacks.push(c.layoverMinutes - info.mct.mctMinutes);
+    });
+  });
+  for (const [pair, slacks] of slacksOfPair) pair.prepare(slacks);
+
   const scoredConnections: ScoredConnection[][] = [];
   const allMakeByDraw: Float64Array[] = [];
   const simTrips: SimTrip[] = [];

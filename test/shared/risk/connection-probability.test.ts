@@ -4,6 +4,7 @@ import {
   centralInterval,
   ConnectionPair,
   drawMakeProbability,
+  drawMakeProbabilityPair,
   makeCurvePoints,
   minimumLayover,
   pMakeAtLayover,
@@ -206,6 +207,23 @@ describe('monotonicity and the minimum layover', () => {
     }
   });
 
+  it('gives the same answer whether P(make) is already known at other margins (aiming its guides) or not', () => {
+    const fresh = () => [
+      equalScalePair(8, 3, 15, 40).pair,
+      new ConnectionPair(mixtureTables('arrival', 11), mixtureTables('departure', 12)),
+      new ConnectionPair(mixtureTables('arrival', 5), mixtureTables('departure', 6)),
+    ];
+    const plain = fresh();
+    const primed = fresh();
+    // Known margins near and far from the answers, as scoring leaves them.
+    for (const pair of primed) pair.prepare([-60, -5, 0, 17, 40, 41, 300]);
+    for (const target of [0.5, 0.9, 0.99]) {
+      for (const mct of [30, 60]) {
+        plain.forEach((pair, k) => expect(minimumLayover(primed[k]!, mct, target), `pair ${k}, target ${target}`).toBe(minimumLayover(pair, mct, target)));
+      }
+    }
+  });
+
   it('returns 0 when even no layover reaches the target, and null when no layover up to a day does', () => {
     const early = new ConnectionPair(
       new RouteTables(gumbelRoute('ORD', 'DEN', 'arrival', [{ mu: -200, beta: 5 }]), 1),
@@ -222,6 +240,44 @@ describe('monotonicity and the minimum layover', () => {
   it('rejects a target outside (0, 1)', () => {
     expect(() => minimumLayover(pairs.gumbel, 45, 1)).toThrow(RangeError);
     expect(() => minimumLayover(pairs.gumbel, 45, Number.NaN)).toThrow(RangeError);
+  });
+});
+
+describe('two margins in one pass', () => {
+  const pairs = [
+    equalScalePair(8, 3, 15, 8).pair,
+    new ConnectionPair(mixtureTables('arrival', 21), mixtureTables('departure', 22)),
+    new ConnectionPair(new RouteTables(lomaxMixture('arrival').posterior, 1), new RouteTables(lomaxMixture('departure').posterior, 1)),
+  ];
+
+  it('gives exactly drawMakeProbability at each margin, whether their terms overlap or not', () => {
+    // Neighbours, apart, equal, reversed, far below and far above the grids, and one margin
+    // whose terms share no run of A's whole-minute table with the other's.
+    const margins: [number, number][] = [[30, 31], [0, 45], [45, 0], [7, 7], [-3000, 3000], [-200, 5], [500, 501], [1400, -1400], [-40, 900]];
+    for (const pair of pairs) {
+      const out0 = new Float64Array(pair.draws);
+      const out1 = new Float64Array(pair.draws);
+      for (const [m0, m1] of margins) {
+        for (let t = 0; t < pair.draws; t++) {
+          const a = pair.arrival.table(t);
+          const d = pair.departure.table(t);
+          drawMakeProbabilityPair(a, d, m0, m1, out0, out1, t);
+          expect(out0[t], `draw ${t}, margin ${m0}`).toBe(drawMakeProbability(a, d, m0));
+          expect(out1[t], `draw ${t}, margin ${m1}`).toBe(drawMakeProbability(a, d, m1));
+        }
+      }
+    }
+  });
+
+  it('lets ConnectionPair.prepare work out the same draws as drawProbabilities one margin at a time', () => {
+    const margins = [12, -3, 40, 41, 12, 700, 5];
+    const fresh = () => new ConnectionPair(mixtureTables('arrival', 31), mixtureTables('departure', 32));
+    const prepared = fresh();
+    prepared.prepare(margins);
+    for (const m of margins) expect(prepared.has(m)).toBe(true);
+    expect(prepared.has(13)).toBe(false);
+    const oneByOne = fresh();
+    for (const m of margins) expect(Array.from(prepared.drawProbabilities(m))).toEqual(Array.from(oneByOne.drawProbabilities(m)));
   });
 });
 
