@@ -125,42 +125,29 @@ class Xoshiro128 implements Rng {
     let s2 = state[2]!;
     let s3 = state[3]!;
     for (let k = 0; k < count; k++) {
-      if (withUniform) {
-        let word = Math.imul(rotl(Math.imul(s1, 5), 7), 9);
-        let t = s1 << 9;
-        let c = s2 ^ s0;
-        let d = s3 ^ s1;
-        s1 ^= c;
-        s0 ^= d;
-        s2 = c ^ t;
-        s3 = rotl(d, 11) | 0;
-        const hi = word >>> 5;
+      // Three words with a uniform (its high and low bits, then the exponential's), else one.
+      let word = 0;
+      let high = 0;
+      for (let w = withUniform ? 0 : 2; w < 3; w++) {
         word = Math.imul(rotl(Math.imul(s1, 5), 7), 9);
-        t = s1 << 9;
-        c = s2 ^ s0;
-        d = s3 ^ s1;
+        const t = s1 << 9;
+        const c = s2 ^ s0;
+        const d = s3 ^ s1;
         s1 ^= c;
         s0 ^= d;
         s2 = c ^ t;
         s3 = rotl(d, 11) | 0;
-        us[k] = (hi * 67108864 + (word >>> 6) + 0.5) / 9007199254740992;
+        if (w === 0) high = word >>> 5;
+        else if (w === 1) us[k] = (high * 67108864 + (word >>> 6) + 0.5) / 9007199254740992;
       }
-      const word = Math.imul(rotl(Math.imul(s1, 5), 7), 9);
-      const t = s1 << 9;
-      const c = s2 ^ s0;
-      const d = s3 ^ s1;
-      s1 ^= c;
-      s0 ^= d;
-      s2 = c ^ t;
-      s3 = rotl(d, 11) | 0;
       const j = word >>> 0;
       const i = j & 255;
       if (j < ZIGGURAT_K[i]!) {
         es[k] = (j + 0.5) * ZIGGURAT_W[i]!;
         continue;
       }
-      // Rare (about 1 draw in 100): the rest of exponential() on the stored state, as from
-      // its second word on.
+      // Rare (about 1 draw in 100): the rest of exponential() after its first word, on the
+      // stored state.
       state[0] = s0;
       state[1] = s1;
       state[2] = s2;

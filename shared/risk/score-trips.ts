@@ -230,22 +230,25 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     return index;
   };
 
-  // Every route pair's slacks first, so that its P(make) by draw is worked out two slacks at a
-  // time (ConnectionPair.prepare); the same values as one at a time.
+  // Every connection's route pair, and every scored pair's slacks, first: so that its P(make)
+  // by draw is worked out two slacks at a time (ConnectionPair.prepare), the same values as one
+  // at a time.
   const slacksOfPair = new Map<ConnectionPair, number[]>();
-  parsed.trips.forEach((trip, tripIndex) => {
+  const pairsOfTrips = parsed.trips.map((trip, tripIndex) => {
     const routesOfTrip = legRoutes[tripIndex]!;
-    trip.connections.forEach((c, k) => {
+    return trip.connections.map((c, k) => {
       const inbound = trip.legs[c.inboundLeg] as Leg;
       const outbound = trip.legs[c.inboundLeg + 1] as Leg;
       const inRoute = routesOfTrip[c.inboundLeg]!;
       const outRoute = routesOfTrip[c.inboundLeg + 1]!;
       const info = routePairOf(inbound, outbound, inRoute, outRoute);
-      if (!isScored(trip, k)) return;
-      const pair = scoredPairOf(info, inbound, outbound, inRoute, outRoute);
-      let slacks = slacksOfPair.get(pair);
-      if (!slacks) slacksOfPair.set(pair, (slacks = []));
-      slacks.push(c.layoverMinutes - info.mct.mctMinutes);
+      if (isScored(trip, k)) {
+        const pair = scoredPairOf(info, inbound, outbound, inRoute, outRoute);
+        let slacks = slacksOfPair.get(pair);
+        if (!slacks) slacksOfPair.set(pair, (slacks = []));
+        slacks.push(c.layoverMinutes - info.mct.mctMinutes);
+      }
+      return info;
     });
   });
   for (const [pair, slacks] of slacksOfPair) pair.prepare(slacks);
@@ -261,20 +264,18 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     const conns: ScoredConnection[] = [];
     const simConns: SimConnection[] = [];
     const allByDraw = allMake.subarray(tripIndex * draws, (tripIndex + 1) * draws);
-    const routesOfTrip = legRoutes[tripIndex]!;
+    const pairsOfTrip = pairsOfTrips[tripIndex]!;
     trip.connections.forEach((c, k) => {
       const inbound = trip.legs[c.inboundLeg] as Leg;
       const outbound = trip.legs[c.inboundLeg + 1] as Leg;
-      const inRoute = routesOfTrip[c.inboundLeg]!;
-      const outRoute = routesOfTrip[c.inboundLeg + 1]!;
-      const info = routePairOf(inbound, outbound, inRoute, outRoute);
+      const info = pairsOfTrip[k]!;
       const { mct } = info;
       const flags: RiskFlag[] = [...c.flags];
       if (!isScored(trip, k)) {
         conns.push(connectionRecord(c, inbound, outbound, info, flags, null));
         return;
       }
-      const pair = scoredPairOf(info, inbound, outbound, inRoute, outRoute);
+      const pair = info.pair!;
       const slack = c.layoverMinutes - mct.mctMinutes;
       const byDraw = pair.drawProbabilities(slack);
       // Travellers on the same flights share a connection: its summary is worked out once.
