@@ -22,8 +22,8 @@ export const MAX_LAYOVER_MINUTES = 1440;
  * minimum-layover check relies on that.
  */
 export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m: number): number {
-  drawMakeProbabilityInto(arrival, departure, m, single, 0);
-  return single[0]!;
+  drawMakeProbabilityInto(arrival, departure, m, oneValue, 0);
+  return oneValue[0]!;
 }
 
 /** drawMakeProbability written into out[t]: no value returned from a call, none boxed. */
@@ -36,7 +36,7 @@ export function drawMakeProbabilityInto(arrival: DrawTable, departure: DrawTable
 
 // The running sums handed to finishSum (a double passed to a call left out of line is boxed).
 const partial = new Float64Array(2);
-const single = new Float64Array(1);
+const oneValue = new Float64Array(1);
 
 /**
  * drawMakeProbability at two margins in one pass over D's weights where both read A's
@@ -161,9 +161,11 @@ export class ConnectionPair {
 
   /**
    * Works out drawProbabilities at several whole-minute margins ahead, two at a time in one pass
-   * where it can (drawMakeProbabilityPair): the same values as asking for each in turn.
+   * where it can (drawMakeProbabilityPair): the same values as asking for each in turn. A
+   * fractional margin is a RangeError, as there; NaN is skipped (it gives NaN, never memoised).
    */
   prepare(margins: readonly number[]): void {
+    for (const m of margins) if (!Number.isNaN(m) && !Number.isInteger(m)) throw new RangeError(`the margin must be whole minutes, got ${m}`);
     const todo = [...new Set(margins)].filter((m) => Number.isInteger(m) && !this.memo.has(m)).sort((a, b) => a - b);
     let k = 0;
     for (; k + 1 < todo.length; k += 2) {

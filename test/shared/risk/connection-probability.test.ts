@@ -278,6 +278,9 @@ describe('two margins in one pass', () => {
     expect(prepared.has(13)).toBe(false);
     const oneByOne = fresh();
     for (const m of margins) expect(Array.from(prepared.drawProbabilities(m))).toEqual(Array.from(oneByOne.drawProbabilities(m)));
+    expect(() => prepared.prepare([3, 4.5])).toThrow(RangeError);
+    prepared.prepare([NaN]);
+    expect(prepared.has(NaN)).toBe(false);
   });
 });
 
