@@ -6,12 +6,13 @@
 // the group come from the seeded joint simulation in trip-simulation.ts.
 import type { PosteriorSource, RoutePosterior } from '../delay/predictive';
 import type { Connection, Leg, ParsedTrips, Problem, Trip } from '../itinerary/types';
-import { centralInterval, ConnectionPair, mean, minimumLayover } from './connection-probability';
+import { centralInterval, mean } from './connection-probability';
 import { RouteTables } from './delay-table';
 import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct, type ResolvedMct } from './mct';
 import { rankOptions } from './option-ranking';
 import { summariseGroup } from './group-summary';
-import { flightKey, simulateTrips, type SimConnection, type SimFlight, type SimTrip } from './trip-simulation';
+import { answerAt, groupJobs, solvePlan, type PairAnswer, type PairJob, type PairPlan } from './pair-jobs';
+import { flightKey, simulateTrips, type SimConnection, type SimFlight, type SimTrip, type TripSimulation } from './trip-simulation';
 import {
   RISK_CAUTION,
   type ConnectionType,
@@ -62,7 +63,8 @@ function checkGap(gap: number, what: string): void {
 interface RoutePair {
   readonly type: ConnectionType;
   readonly mct: ResolvedMct;
-  pair?: ConnectionPair;
+  arrival?: RoutePosterior;
+  departure?: RoutePosterior;
   inbound?: RouteEvidence;
   outbound?: RouteEvidence;
   /** P(make) and its interval by slack (layover - MCT). */
@@ -118,6 +120,39 @@ function evidence(tables: RouteTables): RouteEvidence {
  * the posterior source has no posterior for one of its airports.
  */
 export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options: ScoreOptions): ScoredTrips {
+  const prepared = prepareScoring(parsed, source, options);
+  const answers = solvePlan(source, prepared.plan);
+  return assembleScoring(prepared, answers, simulateScoring(prepared));
+}
+
+/**
+ * A scoring run up to its two independent parts: the connection work (`plan`, solved by
+ * solvePlan here or group by group on other threads) and the simulation (simulateScoring).
+ * assembleScoring puts the answers together; whoever solved the plan, the result is the same.
+ */
+export interface PreparedScoring {
+  readonly plan: PairPlan;
+  /** @internal The rest of the run's state, for simulateScoring and assembleScoring. */
+  readonly state: ScoringState;
+}
+
+interface ScoringState {
+  readonly parsed: ParsedTrips;
+  readonly source: PosteriorSource;
+  readonly settings: ReturnType<typeof resolveScoreSettings>;
+  readonly problems: Problem[];
+  readonly draws: number;
+  readonly isScored: (trip: Trip, k: number) => boolean;
+  /** Each trip's connections' route pairs, and each scored pair's job. */
+  readonly pairsOfTrips: RoutePair[][];
+  readonly jobOf: Map<RoutePair, number>;
+  readonly flights: SimFlight[];
+  readonly simTrips: SimTrip[];
+  readonly overrides: number;
+}
+
+/** Validates the options, resolves every route and MCT, and plans the connection work. */
+export function prepareScoring(parsed: ParsedTrips, source: PosteriorSource, options: ScoreOptions): PreparedScoring {
   const settings = resolveScoreSettings(options);
   const rules = options.mctRules ?? [];
   const problems: Problem[] = [...parsed.problems];
@@ -186,31 +221,6 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
   for (const slot of slots) if (slot) draws = Math.min(draws, slot.posterior.drawCount);
   const tablesOf = (slot: RouteSlot): RouteTables => (slot.tables ??= new RouteTables(slot.posterior, draws));
 
-  // What every connection between the same two routes shares (travellers on the same flights
-  // and on different days alike): the connection type and MCT, the pair of route tables, its
-  // evidence, its P(make) summaries by slack and its minimum layover, each worked out once.
-  const routePairs = new Map<number, RoutePair>();
-  const routePairOf = (inbound: Leg, outbound: Leg, inRoute: number, outRoute: number): RoutePair => {
-    const key = inRoute * routeIds.size + outRoute;
-    let info = routePairs.get(key);
-    if (!info) {
-      const type = connectionType(countryOf(inbound.from), countryOf(inbound.to), countryOf(outbound.from), countryOf(outbound.to));
-      info = { type, mct: resolveMct(rules, inbound.to, outbound.from, type, settings.transferMinutes), summaries: new Map() };
-      routePairs.set(key, info);
-    }
-    return info;
-  };
-  const scoredPairOf = (info: RoutePair, inbound: Leg, outbound: Leg, inRoute: number, outRoute: number): ConnectionPair => {
-    if (!info.pair) {
-      const arrival = tablesOf(routeSlot(inbound, inRoute, 'arrival'));
-      const departure = tablesOf(routeSlot(outbound, outRoute, 'departure'));
-      info.pair = new ConnectionPair(arrival, departure);
-      info.inbound = evidence(arrival);
-      info.outbound = evidence(departure);
-    }
-    return info.pair;
-  };
-
   const unknownCountry = new Set<string>();
   const countryOf = (code: string): string => {
     const country = options.countryOf(code);
@@ -222,18 +232,22 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     return `?${code}`;
   };
 
-  // A flight's tables for the simulation, set when some trip needs them.
-  const flightOf = (leg: Leg, t: number, k: number, kind: 'arrival' | 'departure'): number => {
-    const index = legFlights[t]![k]!;
-    const flight = flights[index]!;
-    flight[kind] ??= tablesOf(routeSlot(leg, legRoutes[t]![k]!, kind));
-    return index;
+  // What every connection between the same two routes shares (travellers on the same flights
+  // and on different days alike): the connection type and MCT, the routes' evidence, and one
+  // job for the connection work: its P(make) by slack and its minimum layover.
+  const routePairs = new Map<number, RoutePair>();
+  const jobOf = new Map<RoutePair, number>();
+  const jobs: { job: PairJob; slacks: Set<number>; airport: string }[] = [];
+  const routePairOf = (inbound: Leg, outbound: Leg, inRoute: number, outRoute: number): RoutePair => {
+    const key = inRoute * routeIds.size + outRoute;
+    let info = routePairs.get(key);
+    if (!info) {
+      const type = connectionType(countryOf(inbound.from), countryOf(inbound.to), countryOf(outbound.from), countryOf(outbound.to));
+      info = { type, mct: resolveMct(rules, inbound.to, outbound.from, type, settings.transferMinutes), summaries: new Map() };
+      routePairs.set(key, info);
+    }
+    return info;
   };
-
-  // Every connection's route pair, and every scored pair's slacks, first: so that its P(make)
-  // by draw is worked out two slacks at a time (ConnectionPair.prepare), the same values as one
-  // at a time.
-  const slacksOfPair = new Map<ConnectionPair, number[]>();
   const pairsOfTrips = parsed.trips.map((trip, tripIndex) => {
     const routesOfTrip = legRoutes[tripIndex]!;
     return trip.connections.map((c, k) => {
@@ -243,26 +257,71 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       const outRoute = routesOfTrip[c.inboundLeg + 1]!;
       const info = routePairOf(inbound, outbound, inRoute, outRoute);
       if (isScored(trip, k)) {
-        const pair = scoredPairOf(info, inbound, outbound, inRoute, outRoute);
-        let slacks = slacksOfPair.get(pair);
-        if (!slacks) slacksOfPair.set(pair, (slacks = []));
-        slacks.push(c.layoverMinutes - info.mct.mctMinutes);
+        let job = jobOf.get(info);
+        if (job === undefined) {
+          job = jobs.length;
+          jobOf.set(info, job);
+          const arrival = tablesOf(routeSlot(inbound, inRoute, 'arrival'));
+          const departure = tablesOf(routeSlot(outbound, outRoute, 'departure'));
+          info.arrival = arrival.posterior;
+          info.departure = departure.posterior;
+          info.inbound = evidence(arrival);
+          info.outbound = evidence(departure);
+          const route = (leg: Leg) => ({ origin: leg.from, destination: leg.to });
+          jobs.push({ job: { inbound: route(inbound), outbound: route(outbound), slacks: [], mctMinutes: info.mct.mctMinutes }, slacks: new Set(), airport: inbound.to });
+        }
+        jobs[job]!.slacks.add(c.layoverMinutes - info.mct.mctMinutes);
       }
       return info;
     });
   });
-  for (const [pair, slacks] of slacksOfPair) pair.prepare(slacks);
+  const pairJobs = jobs.map(({ job, slacks }) => ({ ...job, slacks: [...slacks].sort((a, b) => (Number.isNaN(a) ? 1 : Number.isNaN(b) ? -1 : a - b)) }));
+  const plan: PairPlan = { draws, target: settings.target, jobs: pairJobs, groups: groupJobs(pairJobs, (k) => jobs[k]!.airport) };
 
+  // A flight's routes for the simulation, set when some trip needs them.
+  const flightOf = (leg: Leg, t: number, k: number, kind: 'arrival' | 'departure'): number => {
+    const index = legFlights[t]![k]!;
+    const flight = flights[index]!;
+    flight[kind] ??= tablesOf(routeSlot(leg, legRoutes[t]![k]!, kind));
+    return index;
+  };
+  const simTrips: SimTrip[] = parsed.trips.map((trip, tripIndex) => {
+    const pairsOfTrip = pairsOfTrips[tripIndex]!;
+    const connections: SimConnection[] = [];
+    trip.connections.forEach((c, k) => {
+      if (!isScored(trip, k)) return;
+      const slackMinutes = c.layoverMinutes - pairsOfTrip[k]!.mct.mctMinutes;
+      connections.push({ inbound: flightOf(trip.legs[c.inboundLeg] as Leg, tripIndex, c.inboundLeg, 'arrival'), outbound: flightOf(trip.legs[c.inboundLeg + 1] as Leg, tripIndex, c.inboundLeg + 1, 'departure'), slackMinutes });
+    });
+    const last = trip.legs[trip.legs.length - 1] as Leg;
+    const deadlineMs = trip.deadlineUtc ? Date.parse(trip.deadlineUtc) : NaN;
+    return {
+      connections,
+      lastFlight: flightOf(last, tripIndex, trip.legs.length - 1, 'arrival'),
+      rebookGapMinutes: options.rebookGapByTrip?.[trip.id] ?? settings.rebookGap,
+      deadlineSlackMinutes: Number.isFinite(deadlineMs) ? (deadlineMs - last.arriveUtcMs) / 60000 : null,
+    };
+  });
+  return { plan, state: { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, flights, simTrips, overrides: rules.length } };
+}
+
+/** The seeded joint simulation of a prepared run (independent of its connection work). */
+export function simulateScoring(prepared: PreparedScoring): TripSimulation[] {
+  const { flights, simTrips, settings, draws } = prepared.state;
+  return simulateTrips(flights, simTrips, settings.simulations, draws, settings.seed);
+}
+
+/** The scored trips from a prepared run, its plan's answers (by job) and its simulation. */
+export function assembleScoring(prepared: PreparedScoring, answers: readonly PairAnswer[], sims: readonly TripSimulation[]): ScoredTrips {
+  const { plan } = prepared;
+  const { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, simTrips } = prepared.state;
   const scoredConnections: ScoredConnection[][] = [];
   const allMakeByDraw: Float64Array[] = [];
-  const simTrips: SimTrip[] = [];
   // P(all connections) per trip and draw, in one block: a typed array per trip would get an
   // off-heap store of its own.
   const allMake = new Float64Array(parsed.trips.length * draws).fill(1);
   parsed.trips.forEach((trip, tripIndex) => {
-    const rebookGap = options.rebookGapByTrip?.[trip.id] ?? settings.rebookGap;
     const conns: ScoredConnection[] = [];
-    const simConns: SimConnection[] = [];
     const allByDraw = allMake.subarray(tripIndex * draws, (tripIndex + 1) * draws);
     const pairsOfTrip = pairsOfTrips[tripIndex]!;
     trip.connections.forEach((c, k) => {
@@ -275,9 +334,11 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
         conns.push(connectionRecord(c, inbound, outbound, info, flags, null));
         return;
       }
-      const pair = info.pair!;
+      const job = jobOf.get(info)!;
+      const answer = answers[job];
+      if (!answer) throw new Error(`scoring lost the answer of connection ${inbound.flight}-${outbound.flight}`);
       const slack = c.layoverMinutes - mct.mctMinutes;
-      const byDraw = pair.drawProbabilities(slack);
+      const byDraw = answerAt(plan, job, answer, slack);
       // Travellers on the same flights share a connection: its summary is worked out once.
       let summary = info.summaries.get(slack);
       if (!summary) {
@@ -286,38 +347,25 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
       }
       for (let t = 0; t < draws; t++) allByDraw[t] = allByDraw[t]! * byDraw[t]!;
       const pMake = summary.pMake;
-      if (info.minLayover === undefined) info.minLayover = minimumLayover(pair, mct.mctMinutes, settings.target);
-      const minLayover = info.minLayover;
+      const minLayover = answer.minLayover;
       if (c.layoverMinutes < mct.mctMinutes && !flags.includes('below-mct')) flags.push('below-mct');
       if (pMake < settings.target) flags.push('below-target');
       if (minLayover === null) flags.push('target-unreachable');
-      const arrivalTables = pair.arrival;
-      const departureTables = pair.departure;
-      if (arrivalTables.posterior.pooling !== 'route' || departureTables.posterior.pooling !== 'route') flags.push('pooled-route');
+      const arrival = info.arrival!;
+      const departure = info.departure!;
+      if (arrival.pooling !== 'route' || departure.pooling !== 'route') flags.push('pooled-route');
       conns.push(
         connectionRecord(c, inbound, outbound, info, flags, {
           pMake,
           interval: summary.interval,
           minLayover,
-          warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrivalTables.posterior, departureTables.posterior),
+          warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrival, departure),
         }),
       );
-      simConns.push({ inbound: flightOf(inbound, tripIndex, c.inboundLeg, 'arrival'), outbound: flightOf(outbound, tripIndex, c.inboundLeg + 1, 'departure'), slackMinutes: slack });
-    });
-    const last = trip.legs[trip.legs.length - 1] as Leg;
-    const deadlineMs = trip.deadlineUtc ? Date.parse(trip.deadlineUtc) : NaN;
-    simTrips.push({
-      connections: simConns,
-      lastFlight: flightOf(last, tripIndex, trip.legs.length - 1, 'arrival'),
-      rebookGapMinutes: rebookGap,
-      deadlineSlackMinutes: Number.isFinite(deadlineMs) ? (deadlineMs - last.arriveUtcMs) / 60000 : null,
     });
     scoredConnections.push(conns);
     allMakeByDraw.push(allByDraw);
   });
-
-  const simFlights: SimFlight[] = flights;
-  const sims = simulateTrips(simFlights, simTrips, settings.simulations, draws, settings.seed);
 
   const metrics = parsed.trips.map((trip, k) => {
     const sim = sims[k];
@@ -366,7 +414,7 @@ export function scoreTrips(parsed: ParsedTrips, source: PosteriorSource, options
     };
   });
   const group = summariseGroup(trips, sims, settings.simulations);
-  const overrides = rules.length;
+  const overrides = prepared.state.overrides;
   return {
     format: parsed.format,
     trips,
