@@ -2,10 +2,11 @@
 //
 //   dist/main/main.cjs, preload.cjs   Electron main process and sandboxed preload
 //   dist/main/engine-thread.cjs       the worker thread that parses and scores for the main process
+//   dist/main/score-pair-worker.cjs   its helper thread for large scoring runs
 //   dist/cli/layline.cjs              the `layline` command
 //   dist/web/serve.cjs                the plain-page server (`npm run web`)
 //   dist/renderer/                    the page: index.html, app.js, engine-worker.js, styles.css
-//   dist/bench/run.cjs                `npm run bench`
+//   dist/bench/run.cjs                `npm run bench`, and risk-pair-worker.cjs, its scoring helper
 import { build } from 'esbuild';
 import { chmod, copyFile, mkdir, readFile, rm } from 'node:fs/promises';
 import path from 'node:path';
@@ -23,11 +24,11 @@ await rm(out, { recursive: true, force: true });
 await mkdir(path.join(out, 'renderer'), { recursive: true });
 
 const jobs = [
-  build({ ...node, entryPoints: { main: 'main/electron/main.ts', preload: 'main/electron/preload.ts', 'engine-thread': 'main/electron/engine-thread.ts' }, outdir: 'dist/main', outExtension: { '.js': '.cjs' }, external: ['electron'] }),
+  build({ ...node, entryPoints: { main: 'main/electron/main.ts', preload: 'main/electron/preload.ts', 'engine-thread': 'main/electron/engine-thread.ts', 'score-pair-worker': 'main/electron/score-pair-worker.ts' }, outdir: 'dist/main', outExtension: { '.js': '.cjs' }, external: ['electron'] }),
   // playwright-core stays external: it reads its own package files at run time and cannot be bundled.
   build({ ...node, entryPoints: { layline: 'main/cli/layline.ts' }, outdir: 'dist/cli', outExtension: { '.js': '.cjs' }, banner: { js: '#!/usr/bin/env node' }, external: ['playwright-core'] }),
   build({ ...node, entryPoints: { serve: 'main/web/serve.ts' }, outdir: 'dist/web', outExtension: { '.js': '.cjs' } }),
-  build({ ...node, entryPoints: { run: 'main/bench/run.ts' }, outdir: 'dist/bench', outExtension: { '.js': '.cjs' }, external: ['playwright-core'] }),
+  build({ ...node, entryPoints: { run: 'main/bench/run.ts', 'risk-pair-worker': 'main/bench/risk-pair-worker.ts' }, outdir: 'dist/bench', outExtension: { '.js': '.cjs' }, external: ['playwright-core'] }),
   build({
     absWorkingDir: root,
     bundle: true,

@@ -8,11 +8,11 @@ import { findAirport } from '../time/airports';
 import { loadBundledPosteriors } from './bundled-posteriors';
 import type { EngineDeps } from './engine-handlers';
 
-export function realEngineDeps(nowMs: () => number, loadPosteriorSource: () => Promise<PosteriorSource> = loadBundledPosteriors): EngineDeps {
+export function realEngineDeps(nowMs: () => number, loadPosteriorSource: () => Promise<PosteriorSource> = loadBundledPosteriors, score: EngineDeps['scoreTrips'] = scoreTrips): EngineDeps {
   return {
     parseTrips: (text) => parseTrips(text),
     loadPosteriorSource,
-    scoreTrips,
+    scoreTrips: score,
     connectionCurves: (scored, tripId, connectionIndex, source) => {
       const trip = scored.trips.find((t) => t.id === tripId);
       const c = trip?.connections[connectionIndex];

@@ -18,7 +18,8 @@ import { bundleDetailsOf } from '../report/bundle-details';
 export interface EngineDeps {
   readonly parseTrips: (text: string) => ParsedTrips;
   readonly loadPosteriorSource: () => Promise<PosteriorSource>;
-  readonly scoreTrips: (parsed: ParsedTrips, source: PosteriorSource, options: ScoreOptions) => ScoredTrips;
+  /** scoreTrips, or the same on more threads (the same result either way). */
+  readonly scoreTrips: (parsed: ParsedTrips, source: PosteriorSource, options: ScoreOptions) => ScoredTrips | Promise<ScoredTrips>;
   /** P(make) against layover and the margin distribution of one connection of a scored trip. */
   readonly connectionCurves: (scored: ScoredTrips, tripId: string, connectionIndex: number, source: PosteriorSource, options: ScoreOptions) => { curve: MakeCurve; margin: MarginDistribution };
   readonly countryOf: (iata: string) => string | undefined;
@@ -92,7 +93,7 @@ export function createEngineHandlers(deps: EngineDeps): EngineHandlers {
       }
       const options = scoreOptionsFor(settings, deps.countryOf);
       const t2 = deps.nowMs();
-      const scored = deps.scoreTrips(parsed, loaded, options);
+      const scored = await deps.scoreTrips(parsed, loaded, options);
       const scoreMs = deps.nowMs() - t2;
       kept.set(analysisId, { scored, options, source: loaded });
       for (const key of kept.keys()) if (kept.size > KEPT_ANALYSES) kept.delete(key);

@@ -24,14 +24,28 @@ export interface BundleSelection {
   /** Bumped on every change of choice, so the engine knows to reload. */
   readonly generation: () => number;
   readonly choose: (choice: ActiveBundle) => Promise<ActiveBundle>;
+  /**
+   * The choice a source from load() was loaded for, and the generation then (so that another
+   * thread can load the same again, and knows when to reload).
+   */
+  readonly loadedFor: (source: PosteriorSource) => LoadedChoice | undefined;
+}
+
+export interface LoadedChoice {
+  readonly choice: ActiveBundle;
+  readonly generation: number;
 }
 
 export function createBundleSelection(store: BundleStore, loadDefault: () => Promise<PosteriorSource>): BundleSelection {
   let generation = 0;
   let cached: { generation: number; source: Promise<PosteriorSource> } | null = null;
+  const choices = new WeakMap<PosteriorSource, LoadedChoice>();
   const loadActive = async (): Promise<PosteriorSource> => {
+    const at = generation;
     const active = await store.active();
-    return active.kind === 'default' ? loadDefault() : createBundleSource(await store.load(active.id));
+    const source = active.kind === 'default' ? await loadDefault() : createBundleSource(await store.load(active.id));
+    choices.set(source, { choice: active, generation: at });
+    return source;
   };
   return {
     load: () => {
@@ -46,6 +60,7 @@ export function createBundleSelection(store: BundleStore, loadDefault: () => Pro
       return cached.source;
     },
     generation: () => generation,
+    loadedFor: (source) => choices.get(source),
     choose: async (choice) => {
       await store.use(choice);
       generation++;

@@ -5,12 +5,25 @@ import { mkdtemp, readdir, readFile, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
+import { formatInTimeZone } from 'date-fns-tz';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createThreadEngine } from '../../main/electron/engine-thread-client';
+import { BundleLibrary } from '../../main/history/bundle-library';
+import { previewHistoryRef, readHistoryRef } from '../../main/history/history-file-refs';
+import { PairWorker } from '../../main/scoring/pair-workers';
+import { createEngineHost } from '../../shared/api/engine-host';
+import { createBundleSource } from '../../shared/delay/bundle/posterior-source';
+import { loadDefaultPosteriorSource } from '../../shared/delay/bundle/default-bundle';
+import { solvePlan } from '../../shared/risk/pair-jobs';
+import { prepareScoring } from '../../shared/risk/score-trips';
+import { findAirport } from '../../shared/time/airports';
+import { DEFAULT_ANALYSIS_SETTINGS } from '../../shared/workspace/settings';
+import { groupTrips } from '../fixtures/risk/group-trips';
 import { writeSyntheticBtsCsv } from '../../main/history/synthetic-history';
 import { dayNumber } from '../../shared/history/cells';
 
 const THREAD = path.resolve(__dirname, '../../dist/main/engine-thread.cjs');
+const HELPER = path.resolve(__dirname, '../../dist/main/score-pair-worker.cjs');
 let dir: string;
 let history: string;
 let bundles: string;
@@ -60,5 +73,56 @@ describe('the engine thread', () => {
       await again.close();
     }
     expect((await readdir(bundles)).sort()).toEqual(['active.json', expect.stringMatching(/^history-history\.csv-.*\.json$/)]);
+  }, 120_000);
+
+  // A group large enough to share its connection work with the thread's helper.
+  const group = groupTrips(60);
+  // The fixture's instants as each airport's local time (IANA zones via date-fns-tz), as a coordinator's file has them.
+  const local = (ms: number, code: string) => formatInTimeZone(ms, findAirport(code)!.zone, 'yyyy-MM-dd HH:mm');
+  const csv = ['traveler,trip,option,flight,from,depart,to,arrive,booking,deadline']
+    .concat(group.trips.flatMap((t) => t.legs.map((l) => [t.traveler, t.trip, t.option, l.flight, l.from, local(l.departUtcMs, l.from), l.to, local(l.arriveUtcMs, l.to), '', ''].join(','))))
+    .join('\n');
+  const numbers = (a: Awaited<ReturnType<ReturnType<typeof start>['analyzeTrips']>>) => ({ trips: a.trips, group: a.group, problems: a.problems.length });
+
+  it('scores a large group with the numbers of one thread, with the bundle that ships and with a fitted one', async () => {
+    const engine = start();
+    try {
+      const library = new BundleLibrary(bundles);
+      const here = createEngineHost({ host: { version: '0', runtime: 'electron', platform: process.platform }, store: library, previewHistory: previewHistoryRef, readHistory: readHistoryRef, nowMs: () => 0 });
+      const fitted = (await library.list()).entries[0]!.id;
+      for (const choice of [{ kind: 'default' as const }, { kind: 'library' as const, id: fitted }]) {
+        await engine.useBundle(choice);
+        await here.useBundle(choice);
+        const threaded = await engine.analyzeTrips(csv, DEFAULT_ANALYSIS_SETTINGS);
+        expect(threaded.scoringError).toBeNull();
+        expect(threaded.problems.filter((p) => p.severity === 'error')).toEqual([]);
+        expect(threaded.trips.length).toBe(group.trips.length);
+        expect(numbers(threaded)).toEqual(numbers(await here.analyzeTrips(csv, DEFAULT_ANALYSIS_SETTINGS)));
+      }
+      await engine.useBundle({ kind: 'default' });
+    } finally {
+      await engine.close();
+    }
+  }, 120_000);
+
+  it('ships a helper that loads either bundle and answers as this thread would', async () => {
+    const fitted = (await new BundleLibrary(bundles).list()).entries[0]!.id;
+    const helper = new PairWorker(HELPER, (file) => new Worker(file, { workerData: { bundleFolder: bundles } }));
+    try {
+      const sources = [
+        { spec: { choice: { kind: 'default' }, generation: 0 }, source: loadDefaultPosteriorSource() },
+        { spec: { choice: { kind: 'library', id: fitted }, generation: 3 }, source: createBundleSource(await new BundleLibrary(bundles).load(fitted)) },
+      ];
+      for (const { spec, source } of sources) {
+        const { plan } = prepareScoring(group, source, { countryOf: (c) => findAirport(c)?.country });
+        const answers = await helper.request(plan, spec, source.info.id, new SharedArrayBuffer(4));
+        const reference = solvePlan(source, plan);
+        expect(answers.length).toBe(plan.jobs.length);
+        for (const a of answers) expect(Array.from(a.byDraw)).toEqual(Array.from(reference[a.job]!.byDraw));
+      }
+      await expect(helper.request(prepareScoring(group, loadDefaultPosteriorSource(), { countryOf: (c) => findAirport(c)?.country }).plan, { choice: { kind: 'other' }, generation: 0 }, 'x', new SharedArrayBuffer(4))).rejects.toThrow(/not a bundle the scoring helper knows/);
+    } finally {
+      await helper.close();
+    }
   }, 120_000);
 });

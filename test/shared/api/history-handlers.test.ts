@@ -115,4 +115,18 @@ describe('createBundleSelection', () => {
     await selection.load();
     expect(loads).toBe(3);
   });
+
+  it('tells which choice, at which generation, a loaded source was loaded for', async () => {
+    const first = syntheticSource({ draws: 4 });
+    const second = syntheticSource({ draws: 4 });
+    let next = first;
+    const selection = createBundleSelection(createMemoryBundleStore(), async () => next);
+    expect(await selection.load()).toBe(first);
+    expect(selection.loadedFor(first)).toEqual({ choice: { kind: 'default' }, generation: 0 });
+    next = second;
+    await selection.choose({ kind: 'default' });
+    expect(await selection.load()).toBe(second);
+    expect(selection.loadedFor(second)).toEqual({ choice: { kind: 'default' }, generation: 1 });
+    expect(selection.loadedFor(syntheticSource())).toBeUndefined();
+  });
 });
