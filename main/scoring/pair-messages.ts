@@ -2,13 +2,14 @@
 // pair-worker-host.ts), checked on arrival on both sides: a thread built from another version
 // or a corrupted message fails with a message, not with wrong numbers.
 import type { PairPlan } from '../../shared/risk/pair-jobs';
+import { isClaims } from './group-claims';
 
 export interface PairRequest {
   readonly id: number;
   /** What the worker's source factory makes the posterior source from. */
   readonly source: unknown;
   readonly plan: PairPlan;
-  /** Int32 counter at 0: the next group to claim, shared by both threads (Atomics.add). */
+  /** The claims both threads take groups by (group-claims.ts). */
   readonly claims: SharedArrayBuffer;
 }
 
@@ -26,7 +27,7 @@ export function checkPairRequest(message: unknown): PairRequest {
   if (typeof message !== 'object' || message === null) fail('not an object');
   const m = message as Partial<PairRequest>;
   if (!Number.isInteger(m.id)) fail('id');
-  if (!(m.claims instanceof SharedArrayBuffer) || m.claims.byteLength < 4) fail('claims');
+  if (!isClaims(m.claims)) fail('claims');
   const plan = m.plan as Partial<PairPlan> | undefined;
   if (!plan || !Number.isInteger(plan.draws) || plan.draws! < 1 || !(plan.target! > 0 && plan.target! < 1)) fail('plan settings');
   if (!Array.isArray(plan.jobs) || !Array.isArray(plan.groups)) fail('plan jobs');

@@ -1,9 +1,10 @@
 // The helper thread's side of parallel scoring (pair-workers.ts): it takes a plan, claims
-// groups of its jobs from the counter it shares with the scoring thread, solves them against
+// groups of its jobs, heaviest first, from the claims it shares with the scoring thread, solves them against
 // its own copy of the posterior source and sends the answers back.
 import { parentPort } from 'node:worker_threads';
 import type { PosteriorSource } from '../../shared/delay/predictive';
 import { solveGroup, type PairAnswer } from '../../shared/risk/pair-jobs';
+import { claimNext } from './group-claims';
 import { checkPairRequest, type PairReply, type PairRequest } from './pair-messages';
 
 /** Makes the posterior source a request names; a spec it cannot read throws (or rejects). */
@@ -39,7 +40,7 @@ export function solveClaimed(request: PairRequest, source: PosteriorSource, tran
   const claims = new Int32Array(request.claims);
   const answers: (PairAnswer | undefined)[] = new Array(plan.jobs.length);
   const out: { job: number; byDraw: Float64Array; minLayover: number | null }[] = [];
-  for (let g = Atomics.add(claims, 0, 1); g < plan.groups.length; g = Atomics.add(claims, 0, 1)) {
+  for (let g = claimNext(claims, plan.groups.length); g >= 0; g = claimNext(claims, plan.groups.length)) {
     const group = plan.groups[g]!;
     solveGroup(source, plan, group, answers);
     for (const job of group) {

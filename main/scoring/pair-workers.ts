@@ -1,6 +1,6 @@
 // Scoring on two threads: this one runs the simulation, and both this one and a helper thread
-// solve the connection work (shared/risk/pair-jobs.ts), claiming its groups one at a time from a
-// shared counter, so that whichever is free takes the next. The helper makes its own copy of the
+// solve the connection work (shared/risk/pair-jobs.ts), claiming its groups one at a time
+// (group-claims.ts), so that whichever is free takes the next. The helper makes its own copy of the
 // posterior source from a spec; every group's answers are the same on either thread, so the
 // result is byte for byte that of scoreTrips on one thread. If the helper fails, what it had
 // claimed is solved here instead.
@@ -10,6 +10,7 @@ import type { ParsedTrips } from '../../shared/itinerary/types';
 import { solveGroup, solvePlan, type PairAnswer, type PairPlan } from '../../shared/risk/pair-jobs';
 import { assembleScoring, prepareScoring, simulateScoring } from '../../shared/risk/score-trips';
 import type { ScoredTrips, ScoreOptions } from '../../shared/risk/types';
+import { claimNext, createClaims } from './group-claims';
 import { checkPairReply, type PairRequest } from './pair-messages';
 
 /**
@@ -135,7 +136,7 @@ export async function scoreInParallel(
     }
     return assembleScoring(prepared, solvePlan(source, plan), simulateScoring(prepared));
   }
-  const claims = new SharedArrayBuffer(4);
+  const claims = createClaims();
   const remote = helper.request(plan, sourceSpec, source.info.id, claims);
   // Never left unhandled: when this thread solves everything, the reply is not waited for.
   remote.catch(() => undefined);
@@ -143,7 +144,7 @@ export async function scoreInParallel(
   const answers: (PairAnswer | undefined)[] = new Array(plan.jobs.length);
   const counter = new Int32Array(claims);
   let here = 0;
-  for (let g = Atomics.add(counter, 0, 1); g < plan.groups.length; g = Atomics.add(counter, 0, 1), here++) solveGroup(source, plan, plan.groups[g]!, answers);
+  for (let g = claimNext(counter, plan.groups.length); g >= 0; g = claimNext(counter, plan.groups.length), here++) solveGroup(source, plan, plan.groups[g]!, answers);
   let fallback: string | undefined;
   let waited = 0;
   if (plan.groups.some((group) => group.some((k) => !answers[k]))) {

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createThreadEngine } from '../../main/electron/engine-thread-client';
 import { BundleLibrary } from '../../main/history/bundle-library';
 import { previewHistoryRef, readHistoryRef } from '../../main/history/history-file-refs';
+import { createClaims } from '../../main/scoring/group-claims';
 import { PairWorker } from '../../main/scoring/pair-workers';
 import { createEngineHost } from '../../shared/api/engine-host';
 import { createBundleSource } from '../../shared/delay/bundle/posterior-source';
@@ -115,12 +116,12 @@ describe('the engine thread', () => {
       ];
       for (const { spec, source } of sources) {
         const { plan } = prepareScoring(group, source, { countryOf: (c) => findAirport(c)?.country });
-        const answers = await helper.request(plan, spec, source.info.id, new SharedArrayBuffer(4));
+        const answers = await helper.request(plan, spec, source.info.id, createClaims());
         const reference = solvePlan(source, plan);
         expect(answers.length).toBe(plan.jobs.length);
         for (const a of answers) expect(Array.from(a.byDraw)).toEqual(Array.from(reference[a.job]!.byDraw));
       }
-      await expect(helper.request(prepareScoring(group, loadDefaultPosteriorSource(), { countryOf: (c) => findAirport(c)?.country }).plan, { choice: { kind: 'other' }, generation: 0 }, 'x', new SharedArrayBuffer(4))).rejects.toThrow(/not a bundle the scoring helper knows/);
+      await expect(helper.request(prepareScoring(group, loadDefaultPosteriorSource(), { countryOf: (c) => findAirport(c)?.country }).plan, { choice: { kind: 'other' }, generation: 0 }, 'x', createClaims())).rejects.toThrow(/not a bundle the scoring helper knows/);
     } finally {
       await helper.close();
     }

@@ -7,6 +7,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createClaims } from '../../../main/scoring/group-claims';
 import { checkPairReply, checkPairRequest } from '../../../main/scoring/pair-messages';
 import { MIN_PARALLEL_JOBS, PairWorker, scoreInParallel, type ParallelReport } from '../../../main/scoring/pair-workers';
 import { solvePlan } from '../../../shared/risk/pair-jobs';
@@ -29,6 +30,20 @@ afterAll(async () => {
 });
 
 const report = (): ParallelReport => ({ here: 0, helper: 0, waitMs: 0 });
+
+/**
+ * A worker from `code` whose requests reserve every group before they are sent, as if it had
+ * claimed them all at once: the scoring thread then depends on it for the whole plan.
+ */
+function greedyWorker(code: string): Worker {
+  const worker = new Worker(code, { eval: true });
+  const post = worker.postMessage.bind(worker);
+  worker.postMessage = (message: { claims: SharedArrayBuffer }) => {
+    Atomics.store(new Int32Array(message.claims), 0, 1e6);
+    post(message);
+  };
+  return worker;
+}
 const parsed = groupTrips(60);
 
 describe('scoreInParallel', () => {
@@ -55,7 +70,7 @@ describe('scoreInParallel', () => {
       const { plan } = prepareScoring(parsed, source, options);
       expect(plan.jobs.length).toBeGreaterThanOrEqual(MIN_PARALLEL_JOBS);
       // Nobody else claims from this counter, so the helper takes every group.
-      const answers = await helper.request(plan, { seed: 7 }, source.info.id, new SharedArrayBuffer(4));
+      const answers = await helper.request(plan, { seed: 7 }, source.info.id, createClaims());
       const reference = solvePlan(source, plan);
       expect(answers.map((a) => a.job).sort((x, y) => x - y)).toEqual(plan.jobs.map((_, k) => k));
       for (const a of answers) {
@@ -71,7 +86,7 @@ describe('scoreInParallel', () => {
     const helper = new PairWorker(workerFile);
     try {
       const { plan } = prepareScoring(parsed, syntheticSource(), options);
-      await expect(helper.request(plan, { nothing: true }, 'synthetic-test', new SharedArrayBuffer(4))).rejects.toThrow(/needs \{ seed \}/);
+      await expect(helper.request(plan, { nothing: true }, 'synthetic-test', createClaims())).rejects.toThrow(/needs \{ seed \}/);
     } finally {
       await helper.close();
     }
@@ -79,14 +94,10 @@ describe('scoreInParallel', () => {
 
   it('solves here what a helper that dies had claimed, with the same output', async () => {
     const starts: string[] = [];
-    // A helper that claims every group, then stops without answering.
+    // A helper that has every group, then stops without answering.
     const dying = new PairWorker('dying', (file) => {
       starts.push(file);
-      return new Worker(
-        `const { parentPort } = require('node:worker_threads');
-         parentPort.on('message', (m) => { new Int32Array(m.claims)[0] = 1e6; process.exit(3); });`,
-        { eval: true },
-      );
+      return greedyWorker(`require('node:worker_threads').parentPort.on('message', () => process.exit(3));`);
     });
     const r = report();
     const scored = await scoreInParallel(parsed, syntheticSource({ seed: 7 }), { seed: 7 }, options, dying, r);
@@ -98,11 +109,10 @@ describe('scoreInParallel', () => {
   });
 
   it('does not trust a helper that scored against another source', async () => {
-    const other = new PairWorker('other', () => new Worker(
-      `const { parentPort } = require('node:worker_threads');
-       parentPort.on('message', (m) => { new Int32Array(m.claims)[0] = 1e6; parentPort.postMessage({ id: m.id, sourceId: 'another-bundle', answers: [] }); });`,
-      { eval: true },
-    ));
+    const other = new PairWorker('other', () =>
+      greedyWorker(`const { parentPort } = require('node:worker_threads');
+        parentPort.on('message', (m) => parentPort.postMessage({ id: m.id, sourceId: 'another-bundle', answers: [] }));`),
+    );
     try {
       const r = report();
       const scored = await scoreInParallel(parsed, syntheticSource({ seed: 7 }), { seed: 7 }, options, other, r);
@@ -131,7 +141,7 @@ describe('scoreInParallel', () => {
 
 describe('the pair messages', () => {
   const { plan } = prepareScoring(parsed, syntheticSource(), options);
-  const request = { id: 1, source: null, plan, claims: new SharedArrayBuffer(4) };
+  const request = { id: 1, source: null, plan, claims: createClaims() };
 
   it('accepts a well-formed request and rejects a broken one, naming the part', () => {
     expect(checkPairRequest(request)).toBe(request);
