@@ -68,7 +68,7 @@ interface RoutePair {
   inbound?: RouteEvidence;
   outbound?: RouteEvidence;
   /** P(make) and its interval by slack (layover - MCT). */
-  readonly summaries: Map<number, { pMake: number; interval: [number, number] }>;
+  readonly summaries: Map<number, { byDraw: Float64Array; pMake: number; interval: [number, number]; minLayover: number | null }>;
   /** Undefined until searched; null when the target is out of reach. */
   minLayover?: number | null;
 }
@@ -334,20 +334,21 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
         conns.push(connectionRecord(c, inbound, outbound, info, flags, null));
         return;
       }
-      const job = jobOf.get(info)!;
-      const answer = answers[job];
-      if (!answer) throw new Error(`scoring lost the answer of connection ${inbound.flight}-${outbound.flight}`);
       const slack = c.layoverMinutes - mct.mctMinutes;
-      const byDraw = answerAt(plan, job, answer, slack);
       // Travellers on the same flights share a connection: its summary is worked out once.
       let summary = info.summaries.get(slack);
       if (!summary) {
-        summary = { pMake: mean(byDraw), interval: centralInterval(byDraw, settings.intervalLevel) };
+        const job = jobOf.get(info)!;
+        const answer = answers[job];
+        if (!answer) throw new Error(`scoring lost the answer of connection ${inbound.flight}-${outbound.flight}`);
+        const byDraw = answerAt(plan, job, answer, slack);
+        summary = { byDraw, pMake: mean(byDraw), interval: centralInterval(byDraw, settings.intervalLevel), minLayover: answer.minLayover };
         info.summaries.set(slack, summary);
       }
+      const byDraw = summary.byDraw;
       for (let t = 0; t < draws; t++) allByDraw[t] = allByDraw[t]! * byDraw[t]!;
       const pMake = summary.pMake;
-      const minLayover = answer.minLayover;
+      const minLayover = summary.minLayover;
       if (c.layoverMinutes < mct.mctMinutes && !flags.includes('below-mct')) flags.push('below-mct');
       if (pMake < settings.target) flags.push('below-target');
       if (minLayover === null) flags.push('target-unreachable');
