@@ -67,8 +67,6 @@ interface RoutePair {
   departure?: RoutePosterior;
   inbound?: RouteEvidence;
   outbound?: RouteEvidence;
-  /** P(make) and its interval by slack (layover - MCT). */
-  readonly summaries: Map<number, { byDraw: Float64Array; pMake: number; interval: [number, number]; minLayover: number | null }>;
   /** Undefined until searched; null when the target is out of reach. */
   minLayover?: number | null;
 }
@@ -243,7 +241,7 @@ export function prepareScoring(parsed: ParsedTrips, source: PosteriorSource, opt
     let info = routePairs.get(key);
     if (!info) {
       const type = connectionType(countryOf(inbound.from), countryOf(inbound.to), countryOf(outbound.from), countryOf(outbound.to));
-      info = { type, mct: resolveMct(rules, inbound.to, outbound.from, type, settings.transferMinutes), summaries: new Map() };
+      info = { type, mct: resolveMct(rules, inbound.to, outbound.from, type, settings.transferMinutes) };
       routePairs.set(key, info);
     }
     return info;
@@ -320,6 +318,8 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
   // P(all connections) per trip and draw, in one block: a typed array per trip would get an
   // off-heap store of its own.
   const allMake = new Float64Array(parsed.trips.length * draws).fill(1);
+  // Each route pair's P(make) by draw, its summary and minimum layover, by slack (from the answers).
+  const summaries = new Map<RoutePair, Map<number, { byDraw: Float64Array; pMake: number; interval: [number, number]; minLayover: number | null }>>();
   parsed.trips.forEach((trip, tripIndex) => {
     const conns: ScoredConnection[] = [];
     const allByDraw = allMake.subarray(tripIndex * draws, (tripIndex + 1) * draws);
@@ -336,14 +336,16 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
       }
       const slack = c.layoverMinutes - mct.mctMinutes;
       // Travellers on the same flights share a connection: its summary is worked out once.
-      let summary = info.summaries.get(slack);
+      let bySlack = summaries.get(info);
+      if (!bySlack) summaries.set(info, (bySlack = new Map()));
+      let summary = bySlack.get(slack);
       if (!summary) {
         const job = jobOf.get(info)!;
         const answer = answers[job];
         if (!answer) throw new Error(`scoring lost the answer of connection ${inbound.flight}-${outbound.flight}`);
         const byDraw = answerAt(plan, job, answer, slack);
         summary = { byDraw, pMake: mean(byDraw), interval: centralInterval(byDraw, settings.intervalLevel), minLayover: answer.minLayover };
-        info.summaries.set(slack, summary);
+        bySlack.set(slack, summary);
       }
       const byDraw = summary.byDraw;
       for (let t = 0; t < draws; t++) allByDraw[t] = allByDraw[t]! * byDraw[t]!;
