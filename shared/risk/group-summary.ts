@@ -8,12 +8,23 @@ import type { GroupSummary, ScoredTrip, TopConnection } from './types';
 
 const TOP_CONNECTIONS = 10;
 
-function travelerKey(trip: ScoredTrip): string {
+/** What the counts need of a trip: who travels, and whether this is their best-ranked option. */
+export type GroupMember = Pick<ScoredTrip, 'traveler' | 'id' | 'optionRank'>;
+
+function travelerKey(trip: GroupMember): string {
   // Without a traveller name, each trip stands for its own traveller.
   return trip.traveler !== '' ? `t:${trip.traveler}` : `id:${trip.id}`;
 }
 
 export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly TripSimulation[], simulations: number): GroupSummary {
+  return { ...groupCounts(trips, sims, simulations), topConnections: topConnections(trips.filter((t) => t.optionRank === 1)) };
+}
+
+/**
+ * The group summary but its top connections: what the simulation alone decides, so that scoring
+ * can work it out while the connection work is still running on another thread.
+ */
+export function groupCounts(trips: readonly GroupMember[], sims: readonly TripSimulation[], simulations: number): Omit<GroupSummary, 'topConnections'> {
   const travelerIndex = new Map<string, number>();
   for (const trip of trips) if (!travelerIndex.has(travelerKey(trip))) travelerIndex.set(travelerKey(trip), travelerIndex.size);
   const travelers = travelerIndex.size;
@@ -65,7 +76,6 @@ export function summariseGroup(trips: readonly ScoredTrip[], sims: readonly Trip
     expectedMisconnectingStdError: Math.sqrt(variance / simulations),
     pAtLeast: { '1': atLeast(1), '2': atLeast(2), '3': atLeast(3), '4': atLeast(4), '5': atLeast(5) },
     countDistribution,
-    topConnections: topConnections(chosen.map((x) => x.trip)),
   };
 }
 
@@ -75,7 +85,8 @@ function addRow(counts: Uint32Array, row: Uint8Array, w: number): void {
   for (let i = 0; i < counts.length; i++) counts[i] = counts[i]! + w * row[i]!;
 }
 
-function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
+/** The connections that contribute most expected misses, among the best-ranked options. */
+export function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
   const byKey = new Map<string, { sample: Omit<TopConnection, 'travelers' | 'expectedMisses'>; who: Set<string> }>();
   for (const trip of trips) {
     for (const c of trip.connections) {

@@ -9,13 +9,14 @@ import type { Connection, Leg, ParsedTrips, Problem, Trip } from '../itinerary/t
 import { centralInterval, mean } from './connection-probability';
 import { RouteTables } from './delay-table';
 import { connectionType, DEFAULT_TRANSFER_MINUTES, resolveMct, type ResolvedMct } from './mct';
-import { rankOptions } from './option-ranking';
-import { summariseGroup } from './group-summary';
+import { rankOptions, type OptionRank } from './option-ranking';
+import { groupCounts, topConnections } from './group-summary';
 import { answerAt, groupJobs, solvePlan, type PairAnswer, type PairJob, type PairPlan } from './pair-jobs';
 import { flightKey, simulateTrips, type SimConnection, type SimFlight, type SimTrip, type TripSimulation } from './trip-simulation';
 import {
   RISK_CAUTION,
   type ConnectionType,
+  type GroupSummary,
   type RiskFlag,
   type RiskWarning,
   type RouteEvidence,
@@ -303,14 +304,47 @@ export function prepareScoring(parsed: ParsedTrips, source: PosteriorSource, opt
   return { plan, state: { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, flights, simTrips, overrides: rules.length } };
 }
 
-/** The seeded joint simulation of a prepared run (independent of its connection work). */
-export function simulateScoring(prepared: PreparedScoring): TripSimulation[] {
-  const { flights, simTrips, settings, draws } = prepared.state;
-  return simulateTrips(flights, simTrips, settings.simulations, draws, settings.seed);
+/** What a prepared run's simulation decides on its own: see simulateScoring. */
+export interface SimulatedScoring {
+  readonly sims: readonly TripSimulation[];
+  /** @internal Each trip's on-time metrics and its option's rank. */
+  readonly metrics: readonly TripMetrics[];
+  readonly ranks: readonly OptionRank[];
+  readonly counts: Omit<GroupSummary, 'topConnections'>;
+}
+
+type TripMetrics = Parameters<typeof rankOptions>[0][number] & { readonly hasDeadline: boolean };
+
+/**
+ * The seeded joint simulation of a prepared run, and what depends on it alone (independent of
+ * the connection work): each trip's on-time metrics, the ranking of options, the group's counts.
+ */
+export function simulateScoring(prepared: PreparedScoring): SimulatedScoring {
+  const { parsed, flights, simTrips, settings, draws } = prepared.state;
+  const sims = simulateTrips(flights, simTrips, settings.simulations, draws, settings.seed);
+  const metrics = parsed.trips.map((trip, k): TripMetrics => {
+    const sim = sims[k];
+    const first = trip.legs[0] as Leg;
+    const last = trip.legs[trip.legs.length - 1] as Leg;
+    const hasDeadline = sim?.pByDeadline !== null && sim?.pByDeadline !== undefined;
+    return {
+      traveler: trip.traveler,
+      trip: trip.trip,
+      option: trip.option,
+      hasDeadline,
+      pOnTime: hasDeadline ? (sim?.pByDeadline ?? NaN) : (sim?.pWithin15 ?? NaN),
+      expectedArrivalDelayMinutes: sim?.meanArrivalDelay ?? NaN,
+      travelMinutes: Math.round((last.arriveUtcMs - first.departUtcMs) / 60000),
+    };
+  });
+  const ranks = rankOptions(metrics);
+  const members = parsed.trips.map((trip, k) => ({ traveler: trip.traveler, id: trip.id, optionRank: ranks[k]!.optionRank }));
+  return { sims, metrics, ranks, counts: groupCounts(members, sims, settings.simulations) };
 }
 
 /** The scored trips from a prepared run, its plan's answers (by job) and its simulation. */
-export function assembleScoring(prepared: PreparedScoring, answers: readonly PairAnswer[], sims: readonly TripSimulation[]): ScoredTrips {
+export function assembleScoring(prepared: PreparedScoring, answers: readonly PairAnswer[], simulated: SimulatedScoring): ScoredTrips {
+  const { sims, metrics, ranks, counts } = simulated;
   const { plan } = prepared;
   const { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, simTrips } = prepared.state;
   const scoredConnections: ScoredConnection[][] = [];
@@ -370,22 +404,6 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
     allMakeByDraw.push(allByDraw);
   });
 
-  const metrics = parsed.trips.map((trip, k) => {
-    const sim = sims[k];
-    const first = trip.legs[0] as Leg;
-    const last = trip.legs[trip.legs.length - 1] as Leg;
-    const hasDeadline = sim?.pByDeadline !== null && sim?.pByDeadline !== undefined;
-    return {
-      traveler: trip.traveler,
-      trip: trip.trip,
-      option: trip.option,
-      hasDeadline,
-      pOnTime: hasDeadline ? (sim?.pByDeadline ?? NaN) : (sim?.pWithin15 ?? NaN),
-      expectedArrivalDelayMinutes: sim?.meanArrivalDelay ?? NaN,
-      travelMinutes: Math.round((last.arriveUtcMs - first.departUtcMs) / 60000),
-    };
-  });
-  const ranks = rankOptions(metrics);
   // Each scored trip is one literal with every field spelled out (see the connections above).
   const trips: ScoredTrip[] = parsed.trips.map((trip, k) => {
     const sim = sims[k];
@@ -416,7 +434,7 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
       paretoOptimal: rank.paretoOptimal,
     };
   });
-  const group = summariseGroup(trips, sims, settings.simulations);
+  const group: GroupSummary = { ...counts, topConnections: topConnections(trips.filter((t) => t.optionRank === 1)) };
   const overrides = prepared.state.overrides;
   return {
     format: parsed.format,
