@@ -1,7 +1,7 @@
 // The messages between the scoring thread and a pair worker (pair-workers.ts,
 // pair-worker-host.ts), checked on arrival on both sides: a thread built from another version
 // or a corrupted message fails with a message, not with wrong numbers.
-import type { PairPlan } from '../../shared/risk/pair-jobs';
+import type { PairAnswer, PairPlan } from '../../shared/risk/pair-jobs';
 import { isClaims } from './group-claims';
 
 export interface PairRequest {
@@ -13,8 +13,13 @@ export interface PairRequest {
   readonly claims: SharedArrayBuffer;
 }
 
+/** One job's answer as it travels: the job's index in the plan, then its PairAnswer. */
+export interface JobAnswer extends PairAnswer {
+  readonly job: number;
+}
+
 export type PairReply =
-  | { readonly id: number; readonly sourceId: string; readonly answers: readonly { readonly job: number; readonly byDraw: Float64Array; readonly minLayover: number | null }[] }
+  | { readonly id: number; readonly sourceId: string; readonly answers: readonly JobAnswer[] }
   | { readonly id: number; readonly error: string };
 
 function fail(what: string): never {

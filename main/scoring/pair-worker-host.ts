@@ -1,11 +1,11 @@
 // The helper thread's side of parallel scoring (pair-workers.ts): it takes a plan, claims
-// groups of its jobs, heaviest first, from the claims it shares with the scoring thread, solves them against
-// its own copy of the posterior source and sends the answers back.
+// groups of its jobs, heaviest first, from the claims it shares with the scoring thread,
+// solves them against its own copy of the posterior source and sends the answers back.
 import { parentPort } from 'node:worker_threads';
 import type { PosteriorSource } from '../../shared/delay/predictive';
 import { solveGroup, type PairAnswer } from '../../shared/risk/pair-jobs';
 import { claimNext } from './group-claims';
-import { checkPairRequest, type PairReply, type PairRequest } from './pair-messages';
+import { checkPairRequest, type JobAnswer, type PairReply, type PairRequest } from './pair-messages';
 
 /** Makes the posterior source a request names; a spec it cannot read throws (or rejects). */
 export type SourceFactory = (spec: unknown) => PosteriorSource | Promise<PosteriorSource>;
@@ -35,11 +35,11 @@ export function servePairRequests(makeSource: SourceFactory): void {
 }
 
 /** Claims groups until none is left; the answers of the jobs in the groups it solved. */
-export function solveClaimed(request: PairRequest, source: PosteriorSource, transfer: ArrayBuffer[] = []): { job: number; byDraw: Float64Array; minLayover: number | null }[] {
+export function solveClaimed(request: PairRequest, source: PosteriorSource, transfer: ArrayBuffer[] = []): JobAnswer[] {
   const { plan } = request;
   const claims = new Int32Array(request.claims);
   const answers: (PairAnswer | undefined)[] = new Array(plan.jobs.length);
-  const out: { job: number; byDraw: Float64Array; minLayover: number | null }[] = [];
+  const out: JobAnswer[] = [];
   for (let g = claimNext(claims, plan.groups.length); g >= 0; g = claimNext(claims, plan.groups.length)) {
     const group = plan.groups[g]!;
     solveGroup(source, plan, group, answers);

@@ -1,7 +1,7 @@
 // Scoring on two threads: this one runs the simulation, and both this one and a helper thread
 // solve the connection work (shared/risk/pair-jobs.ts), claiming its groups one at a time
-// (group-claims.ts), so that whichever is free takes the next. The helper makes its own copy of the
-// posterior source from a spec; every group's answers are the same on either thread, so the
+// (group-claims.ts), so that whichever is free takes the next. The helper makes its own copy
+// of the posterior source from a spec; every group's answers are the same on either thread, so the
 // result is byte for byte that of scoreTrips on one thread. If the helper fails, what it had
 // claimed is solved here instead.
 import { Worker } from 'node:worker_threads';
@@ -11,7 +11,7 @@ import { solveGroup, solvePlan, type PairAnswer, type PairPlan } from '../../sha
 import { assembleScoring, prepareScoring, simulateScoring } from '../../shared/risk/score-trips';
 import type { ScoredTrips, ScoreOptions } from '../../shared/risk/types';
 import { claimNext, createClaims } from './group-claims';
-import { checkPairReply, type PairRequest } from './pair-messages';
+import { checkPairReply, type JobAnswer, type PairRequest } from './pair-messages';
 
 /**
  * Below this many groups, or jobs, of connection work a second thread is not worth starting: a
@@ -20,7 +20,7 @@ import { checkPairReply, type PairRequest } from './pair-messages';
 export const MIN_PARALLEL_GROUPS = 2;
 export const MIN_PARALLEL_JOBS = 24;
 
-type RemoteAnswers = readonly { readonly job: number; readonly byDraw: Float64Array; readonly minLayover: number | null }[];
+type RemoteAnswers = readonly JobAnswer[];
 
 interface Pending {
   readonly plan: PairPlan;
@@ -133,6 +133,7 @@ export async function scoreInParallel(
       report.here = plan.groups.length;
       report.helper = 0;
       report.waitMs = 0;
+      delete report.fallback;
     }
     return assembleScoring(prepared, solvePlan(source, plan), simulateScoring(prepared));
   }
@@ -168,6 +169,7 @@ export async function scoreInParallel(
     report.waitMs = waited;
     report.helper = plan.groups.length - here;
     if (fallback !== undefined) report.fallback = fallback;
+    else delete report.fallback;
   }
   return assembleScoring(prepared, answers as PairAnswer[], sims);
 }

@@ -60,7 +60,10 @@ export function groupJobs(jobs: readonly PairJob[], airportOf: (job: number) => 
   return weighed.map((w) => w.group);
 }
 
-/** Rough costs in all-draw quadrature passes (measured on the benchmark's routes): a route's tables, a search. */
+/**
+ * Rough costs in all-draw quadrature passes, estimated from profiles of the risk benchmark: a
+ * route's tables, a minimum-layover search. Only the order of the groups depends on them.
+ */
 const TABLE_PASSES = 6;
 const MIN_LAYOVER_PASSES = 2;
 

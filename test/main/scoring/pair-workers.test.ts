@@ -105,6 +105,9 @@ describe('scoreInParallel', () => {
     expect(r.fallback).toMatch(/stopped \(exit code 3\)/);
     expect(r.helper).toBe(0);
     expect(starts).toEqual(['dying']);
+    // A report used again tells only of its latest run.
+    await scoreInParallel(groupTrips(4), syntheticSource({ seed: 7 }), { seed: 7 }, options, dying, r);
+    expect(r.fallback).toBeUndefined();
     await dying.close();
   });
 
