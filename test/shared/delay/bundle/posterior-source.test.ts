@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { BundleFormatError, type PosteriorBundle } from '../../../../shared/delay/bundle/bundle-schema';
 import { exceedance } from '../../../../shared/delay/bundle/exceedance';
-import { createBundleSource, parsePosteriorBundle } from '../../../../shared/delay/bundle/posterior-source';
+import { createBundleSource, parsePosteriorBundle, unseenAirportSd } from '../../../../shared/delay/bundle/posterior-source';
 import { findAirport } from '../../../../shared/time/airports';
 import { syntheticBundle } from './synthetic-bundle';
 
@@ -94,6 +94,38 @@ describe('route posteriors from a bundle', () => {
     expect(findAirport('ZRH')).toBeDefined();
     const post = createBundleSource(bundle).route('ORD', 'ZRH', 'arrival');
     expect(post.pooling).toBe('population');
+  });
+
+  it('draws an unseen airport\'s effect with the spread of the fitted airports\' effects, not the MAP hyper-sd', () => {
+    // The EM estimate of a normal variance component (Dempster, Laird & Rubin 1977): the mean of
+    // m^2 + s^2 over the effects, here by hand: (0.3^2 + 0.1^2 + 0.1^2 + 0.1^2 + 0.5^2 + 0.1^2) / 3.
+    const means = [[0.3, 5], [-0.1, 5], [0.5, 5]];
+    const sds = [[0.1, 1], [0.1, 1], [0.1, 1]];
+    const [a, b] = unseenAirportSd(means, sds, [2, 3]);
+    expect(a).toBeCloseTo(Math.sqrt((0.09 + 0.01 + 0.01 + 0.01 + 0.25 + 0.01) / 3), 12);
+    // Capped at the fit's own sd; fewer than three airports keep it.
+    expect(b).toBe(3);
+    expect(unseenAirportSd(means.slice(0, 2), sds.slice(0, 2), [2, 3])).toEqual([2, 3]);
+
+    // An inflated hyper-sd in the file (as a MAP in non-centred coordinates leaves it) no longer
+    // widens the population predictive: the draws' variance of a parameter without month effects
+    // is the known origin's posterior variance + the new destination's + the route sd's.
+    const inflated = JSON.parse(text) as PosteriorBundle;
+    const j = inflated.model.parameters.findIndex((_, i) => !inflated.model.monthEffects.includes(i));
+    inflated.population.destinationSd = inflated.population.destinationSd.map((v) => 50 * v + 5);
+    const source = createBundleSource(inflated, { drawCount: 4000 });
+    const post = source.route('ORD', 'ZRH', 'arrival');
+    expect(post.pooling).toBe('population');
+    const values = Array.from({ length: 4000 }, (_, s) => post.parameters(s)[j]!);
+    const mean = values.reduce((x, y) => x + y, 0) / values.length;
+    const variance = values.reduce((x, y) => x + (y - mean) ** 2, 0) / (values.length - 1);
+    const o = inflated.airports.codes.indexOf('ORD');
+    const newSd = unseenAirportSd(inflated.airports.destinationMean, inflated.airports.destinationSd, inflated.population.destinationSd)[j]!;
+    expect(newSd).toBeLessThan(inflated.population.destinationSd[j]!);
+    const expected = inflated.airports.originSd[o]![j]! ** 2 + newSd ** 2 + inflated.population.routeSd[j]! ** 2;
+    // 4,000 draws: the variance's own sampling error is about 2.2%.
+    expect(variance / expected).toBeGreaterThan(0.9);
+    expect(variance / expected).toBeLessThan(1.1);
   });
 
   it('names an unknown airport code in its error', () => {
