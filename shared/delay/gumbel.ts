@@ -188,6 +188,10 @@ class GumbelDistribution implements DelayDistribution, GridEvaluation {
     readonly scale: number,
   ) {}
 
+  featureScale(): number {
+    return this.scale;
+  }
+
   /** The parameters themselves (DelayDistribution.gumbel). */
   get gumbel(): { readonly location: number; readonly scale: number } {
     return this;

@@ -52,6 +52,9 @@ class MixtureDistribution implements DelayDistribution, GridEvaluation {
   readonly pdfGrid: ((lo: number, out: Float64Array, step?: number) => void) | undefined;
   readonly survivalAt: ((xs: Int32Array, count: number, out: Float64Array) => void) | undefined;
   readonly densityJumps: (() => readonly Jump[]) | undefined;
+  readonly featureScale: (() => number) | undefined;
+  /** The narrowest weighted component's featureScale (NaN when a component has none). */
+  readonly narrowest: number;
 
   constructor(
     readonly comps: readonly Component[],
@@ -76,6 +79,12 @@ class MixtureDistribution implements DelayDistribution, GridEvaluation {
     this.pdfGrid = gridded ? mixturePdfGrid : undefined;
     this.survivalAt = summable ? mixtureSurvivalAt : undefined;
     this.densityJumps = this.jumps.length > 0 ? mixtureJumps : undefined;
+    let narrowest = Infinity;
+    comps.forEach((d, k) => {
+      if (ws[k]! > 0) narrowest = Math.min(narrowest, d.featureScale ? d.featureScale() : NaN);
+    });
+    this.narrowest = narrowest;
+    this.featureScale = narrowest > 0 && narrowest < Infinity ? mixtureFeatureScale : undefined;
   }
 
   cdf(x: number): number {
@@ -173,6 +182,10 @@ function mixtureSurvivalAt(this: MixtureDistribution, xs: Int32Array, count: num
 
 function mixtureJumps(this: MixtureDistribution): readonly Jump[] {
   return this.jumps;
+}
+
+function mixtureFeatureScale(this: MixtureDistribution): number {
+  return this.narrowest;
 }
 
 /**

@@ -63,6 +63,13 @@ export interface GridEvaluation {
    * exact cell masses.
    */
   densityJumps?(): readonly (readonly [number, number, number])[];
+  /**
+   * The width in minutes of the distribution's narrowest feature away from those jumps (the
+   * smallest Gumbel scale of a mixture, say). The risk engine's density tables choose their
+   * quadrature step from it: the trapezoid rule's error on such a density falls like
+   * exp(-pi^2 scale / step). Without it, tables keep a one-minute step.
+   */
+  featureScale?(): number;
 }
 
 export type DelayKind = 'arrival' | 'departure';

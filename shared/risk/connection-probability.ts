@@ -29,7 +29,8 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
 /** drawMakeProbability written into out[t]: no value returned from a call, none boxed. */
 export function drawMakeProbabilityInto(arrival: DrawTable, departure: DrawTable, m: number, out: Float64Array, t: number): void {
   const shift = m + departure.lo - arrival.lo;
-  const inStart = Math.min(departure.coreLength, Math.max(0, -shift));
+  const h = departure.step;
+  const inStart = Math.min(departure.coreLength, Math.max(0, h === 1 ? -shift : Math.ceil(-shift / h)));
   partial[0] = departure.lowMass * arrival.cdfAt(m + departure.lo);
   finishSum(arrival, departure, m, inStart, 0, out, t);
 }
@@ -48,13 +49,14 @@ const oneValue = new Float64Array(1);
 export function drawMakeProbabilityPair(arrival: DrawTable, departure: DrawTable, m0: number, m1: number, out0: Float64Array, out1: Float64Array, t: number): void {
   const lo = departure.lo;
   const coreLength = departure.coreLength;
+  const h = departure.step;
   const nA = arrival.cdf.length;
   const shift0 = m0 + lo - arrival.lo;
   const shift1 = m1 + lo - arrival.lo;
-  const in0 = Math.min(coreLength, Math.max(0, -shift0));
-  const in1 = Math.min(coreLength, Math.max(0, -shift1));
+  const in0 = Math.min(coreLength, Math.max(0, Math.ceil(-shift0 / h)));
+  const in1 = Math.min(coreLength, Math.max(0, Math.ceil(-shift1 / h)));
   const from = Math.max(in0, in1);
-  const to = Math.min(Math.max(in0, Math.min(coreLength, nA - shift0)), Math.max(in1, Math.min(coreLength, nA - shift1)));
+  const to = Math.min(Math.max(in0, Math.min(coreLength, Math.ceil((nA - shift0) / h))), Math.max(in1, Math.min(coreLength, Math.ceil((nA - shift1) / h))));
   let sum0 = departure.lowMass * arrival.cdfAt(m0 + lo);
   let sum1 = departure.lowMass * arrival.cdfAt(m1 + lo);
   if (to <= from) {
@@ -67,12 +69,13 @@ export function drawMakeProbabilityPair(arrival: DrawTable, departure: DrawTable
   const w = departure.weight;
   const fa = arrival.cdf;
   // Each margin's core terms before the shared run, the shared run, then each margin's rest.
-  for (let i = in0; i < from; i++) sum0 += w[i]! * fa[i + shift0]!;
-  for (let i = in1; i < from; i++) sum1 += w[i]! * fa[i + shift1]!;
+  for (let i = in0; i < from; i++) sum0 += w[i]! * fa[i * h + shift0]!;
+  for (let i = in1; i < from; i++) sum1 += w[i]! * fa[i * h + shift1]!;
   for (let i = from; i < to; i++) {
     const wi = w[i]!;
-    sum0 += wi * fa[i + shift0]!;
-    sum1 += wi * fa[i + shift1]!;
+    const x = i * h;
+    sum0 += wi * fa[x + shift0]!;
+    sum1 += wi * fa[x + shift1]!;
   }
   partial[0] = sum0;
   partial[1] = sum1;
@@ -92,15 +95,16 @@ function finishSum(arrival: DrawTable, departure: DrawTable, m: number, from: nu
   const w = departure.weight;
   // The whole-minute core of D, then its sparse tail nodes.
   const coreLength = departure.coreLength;
-  const inEnd = Math.max(from, Math.min(coreLength, nA - shift));
+  const h = departure.step;
+  const inEnd = Math.max(from, Math.min(coreLength, Math.ceil((nA - shift) / h)));
   // Core points below A's grid meet F_A = 0 and add nothing; past A's whole-minute table come its
   // far points, then F(hi_A). Each case adds its own product. (farInterpolate's formula is
   // written out in the loops: a call V8 left out of line returned every value boxed.)
-  for (let i = from; i < inEnd; i++) sum += w[i]! * fa[i + shift]!;
+  for (let i = from; i < inEnd; i++) sum += w[i]! * fa[i * h + shift]!;
   const { far, top, hi: hiA, beyondHi } = arrival;
-  const farEnd = Math.max(inEnd, Math.min(coreLength, hiA - m - lo));
+  const farEnd = Math.max(inEnd, Math.min(coreLength, Math.ceil((hiA - m - lo) / h)));
   for (let i = inEnd; i < farEnd; i++) {
-    const offset = m + lo + i - top;
+    const offset = m + lo + i * h - top;
     const j = offset >> FAR_SHIFT;
     const f0 = far[j]!;
     sum += w[i]! * (f0 + (far[j + 1]! - f0) * ((offset & FAR_MASK) * FAR_FRACTION));
@@ -124,13 +128,53 @@ function finishSum(arrival: DrawTable, departure: DrawTable, m: number, from: nu
   for (; k < nTail; k++) sum += tw[k]! * beyondHi;
   // D's mass beyond its grid meets F_A(m + hi_D) or more: a lower bound, short by under S_D(hi_D).
   sum += departure.highMass * arrival.cdfAt(m + departure.hi);
+  // A kink of F_A (where A's density jumps by J, at x) puts one in the integrand at d = x - m,
+  // its slope jumping by J f_D(d): the trapezoid with step h then errs by -h^2 J f_D(d) B2(theta) / 2,
+  // theta = d's place between its two nodes, B2 the Bernoulli polynomial theta^2 - theta + 1/6
+  // (Euler-Maclaurin for a piecewise smooth integrand; checked against direct integration in the
+  // tests). Added back here, with f_D read off D's weights: even at a step of 1 minute a severe
+  // component that starts with a high density was off by 1e-4 without it.
+  const kinks = arrival.kinks;
+  {
+    for (let k = 0; k < kinks.length; k += 2) {
+      const u = (kinks[k]! - m - lo) / h;
+      const j = Math.floor(u);
+      if (j < 1 || j + 1 >= coreLength - 2) continue;
+      const theta = u - j;
+      const density = ((1 - theta) * w[j]! + theta * w[j + 1]!) / h;
+      sum += (h * h * kinks[k + 1]! * density * (theta * theta - theta + 1 / 6)) / 2;
+    }
+  }
   out[t] = Math.min(1, sum);
+}
+
+/**
+ * The narrowest feature of the two draws a density table integrates must be this many times
+ * its step (minutes). Measured against the logistic closed form for Gumbel pairs
+ * (test/shared/risk/quadrature-step.test.ts): at 2.5 the error stays at that of 1-minute
+ * tables (1e-5 to 2e-5, from the CDF table); at 1.5 it reached 1.2e-3. The trapezoid's error
+ * falls exponentially in scale / step (Trefethen & Weideman 2014, section 3), but a Gumbel's
+ * double-exponential lower tail makes the rate slower than its scale alone suggests.
+ */
+const STEP_SCALE_RATIO = 2.5;
+
+/**
+ * The departure table's step for a pair of draws whose narrowest feature is `scale` minutes wide
+ * (NaN: 1), `jumps` when either density jumps somewhere. A jump is corrected for to second order
+ * (delay-table.ts, finishSum); the third-order error left grows like step^3 times the jump, so
+ * such pairs stay at 2 minutes at most: at 4 a severe component's start was off by 1e-4.
+ */
+export function quadratureStep(scale: number, jumps: boolean): number {
+  const step = scale >= 4 * STEP_SCALE_RATIO ? 4 : scale >= 2 * STEP_SCALE_RATIO ? 2 : 1;
+  return jumps ? Math.min(2, step) : step;
 }
 
 /** The inbound arrival posterior and the outbound departure posterior of one connection. */
 export class ConnectionPair {
   readonly draws: number;
   private readonly memo = new Map<number, Float64Array>();
+  /** Each draw's departure-table step (0 until asked for). */
+  private readonly steps: Uint8Array;
 
   constructor(
     readonly arrival: RouteTables,
@@ -141,6 +185,20 @@ export class ConnectionPair {
       throw new RangeError('a connection pairs the inbound arrival posterior with the outbound departure posterior');
     }
     this.draws = arrival.draws;
+    this.steps = new Uint8Array(this.draws);
+  }
+
+  /**
+   * Joint draw t's departure table, with the step the narrower of its two draws allows
+   * (quadratureStep of their featureScale).
+   */
+  departureTable(t: number): DrawTable {
+    let step = this.steps[t]!;
+    if (step === 0) {
+      step = quadratureStep(Math.min(this.arrival.featureScale(t), this.departure.featureScale(t)), this.arrival.jumps(t) || this.departure.jumps(t));
+      this.steps[t] = step;
+    }
+    return this.departure.table(t, step);
   }
 
   /**
@@ -153,7 +211,7 @@ export class ConnectionPair {
     let out = this.memo.get(m);
     if (!out) {
       out = new Float64Array(this.draws);
-      for (let t = 0; t < this.draws; t++) drawMakeProbabilityInto(this.arrival.table(t), this.departure.table(t), m, out, t);
+      for (let t = 0; t < this.draws; t++) drawMakeProbabilityInto(this.arrival.table(t), this.departureTable(t), m, out, t);
       this.memo.set(m, out);
     }
     return out;
@@ -173,7 +231,7 @@ export class ConnectionPair {
       const m1 = todo[k + 1]!;
       const out0 = new Float64Array(this.draws);
       const out1 = new Float64Array(this.draws);
-      for (let t = 0; t < this.draws; t++) drawMakeProbabilityPair(this.arrival.table(t), this.departure.table(t), m0, m1, out0, out1, t);
+      for (let t = 0; t < this.draws; t++) drawMakeProbabilityPair(this.arrival.table(t), this.departureTable(t), m0, m1, out0, out1, t);
       this.memo.set(m0, out0);
       this.memo.set(m1, out1);
     }
@@ -238,7 +296,7 @@ export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target:
   if (pair.draws >= 2 * GUIDE_STRIDE) {
     // The middle draw alone first: one table pair per evaluation.
     const arrival = pair.arrival.table(pair.draws >> 1);
-    const departure = pair.departure.table(pair.draws >> 1);
+    const departure = pair.departureTable(pair.draws >> 1);
     const known = pair.nearestKnown(guess - mctMinutes);
     const single = searchMinimum((layover) => drawMakeProbability(arrival, departure, layover - mctMinutes), guess, aimed(target, known, pair.draws >> 1, pair.draws, pair.draws), 4, NaN);
     if (single.layover !== null) {
@@ -246,7 +304,7 @@ export function minimumLayover(pair: ConnectionPair, mctMinutes: number, target:
       slope = single.slope;
     }
     const some: [DrawTable, DrawTable][] = [];
-    for (let t = GUIDE_STRIDE >> 1; t < pair.draws; t += GUIDE_STRIDE) some.push([pair.arrival.table(t), pair.departure.table(t)]);
+    for (let t = GUIDE_STRIDE >> 1; t < pair.draws; t += GUIDE_STRIDE) some.push([pair.arrival.table(t), pair.departureTable(t)]);
     const subset = (layover: number) => {
       let sum = 0;
       for (const [a, d] of some) sum += drawMakeProbability(a, d, layover - mctMinutes);
@@ -353,7 +411,7 @@ function searchMinimum(p: (layover: number) => number, guess: number, target: nu
 function roughLayoverGuess(pair: ConnectionPair, mctMinutes: number, target: number): number {
   const t = Math.floor(pair.draws / 2);
   const arrival = pair.arrival.table(t);
-  const departure = pair.departure.table(t);
+  const departure = pair.departureTable(t);
   const a = arrival.inverse(0.5);
   const d = departure.inverse(0.5);
   const spreadA = arrival.inverse(target) - a;

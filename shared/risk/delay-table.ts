@@ -70,6 +70,7 @@ export class DrawTable {
   /**
    * cdf[i] ~ F(lo + i) for the minutes tabulated one by one (the core and the near tail):
    * exact on the whole-minute core, interpolated in the tail. Monotone. Shorter than the grid.
+   * A density table with a step over 1 holds F at its core's points only: cdf[i] ~ F(lo + i step).
    */
   readonly cdf: Float64Array;
   /**
@@ -89,6 +90,8 @@ export class DrawTable {
   readonly tailWeight: Float64Array;
   /** P(X <= lo). */
   readonly lowMass: number;
+  /** Role 'density': whether the core's weights are exact cell masses (the trapezoid's mass was off). */
+  readonly cellMasses: boolean;
   /** S(hi) = P(X > hi), computed from the survival function. */
   readonly highMass: number;
   /** F at and beyond hi: 1 - S(hi), never below the table's last value. */
@@ -108,12 +111,26 @@ export class DrawTable {
    */
   readonly searched: readonly [number, number, number];
 
-  /** `hint`: the searches' results of a similar draw, to start from (the answers do not depend on it). */
+  /**
+   * Role 'cdf': the Lomax-like starts of the density, as [x0, J0, x1, J1, ...] (J the density's
+   * jump there, a kink in F): the quadrature at a step over 1 minute corrects for each.
+   */
+  readonly kinks: Float64Array;
+
+  /**
+   * `hint`: the searches' results of a similar draw, to start from (the answers do not depend on
+   * it). `step`: role 'density' only, the core's spacing in minutes (1, 2 or 4): the weights sit
+   * at lo, lo + step, ..., and the tail nodes start 2 steps past the core. The trapezoid's error
+   * on a smooth density falls like exp(-pi^2 w / step) for features w minutes wide (Trefethen &
+   * Weideman 2014, section 3), so a density a few minutes wide loses nothing at 2 or 4.
+   */
   constructor(
     readonly dist: DelayDistribution,
     readonly role: TableRole,
     hint?: readonly [number, number, number],
+    readonly step = 1,
   ) {
+    if (!(step === 1 || ((step === 2 || step === 4) && role === 'density'))) throw new RangeError(`a ${role} table's step must be 1${role === 'density' ? ', 2 or 4' : ''}, got ${step}`);
     // The work is split into small functions below: each is optimised on its own and quickly,
     // and a rarely taken branch that deoptimises one of them does not send the whole table
     // build back to unoptimised code, which boxes every double it computes.
@@ -122,15 +139,22 @@ export class DrawTable {
     const light = bounds[1]!;
     const lo = bounds[2]!;
     let hi = bounds[3]!;
-    const core = bounds[4]!;
-    this.searched = [first, light, core];
+    const searchedCore = bounds[4]!;
+    this.searched = [first, light, searchedCore];
+    // The core ends on the step's grid (past the searched end, within hi).
+    const h = step;
+    let coreIndex = Math.ceil((searchedCore - lo) / h);
+    if (lo + coreIndex * h > hi) coreIndex = Math.floor((hi - lo) / h);
+    const core = lo + coreIndex * h;
     // The tail nodes live in scratchTail (reused from table to table, grown as needed).
     let nodes = tailNodes(core, hi);
     // The near tail ends at a node; past it the grid's end is moved onto the far tail's points.
+    // A table with a coarser step keeps F on its core's points only (no minute-by-minute tail:
+    // only a CDF table's F is looked up at whole minutes).
     let near = 0;
-    while (near < nodes && scratchTail[near]! < core + NEAR_TAIL_MINUTES) near++;
+    if (h === 1) while (near < nodes && scratchTail[near]! < core + NEAR_TAIL_MINUTES) near++;
     const top = near < nodes ? scratchTail[near]! : hi;
-    if (hi > top) hi = top + Math.ceil((hi - top) / FAR_STEP) * FAR_STEP;
+    if (h === 1 && hi > top) hi = top + Math.ceil((hi - top) / FAR_STEP) * FAR_STEP;
     if (scratchTail.length <= nodes) growTail(nodes + 1);
     scratchTail[nodes++] = hi;
     if (scratchSurvival.length < nodes) {
@@ -141,15 +165,14 @@ export class DrawTable {
     const tailSurvival = scratchSurvival;
     tailSurvivals(dist, scratchTail, nodes, tailSurvival);
     tailDecays(tailSurvival, nodes, scratchDecay);
-    const n = top - lo + 1;
-    const coreIndex = core - lo;
+    const n = h === 1 ? top - lo + 1 : coreIndex + 1;
     this.lo = lo;
     this.hi = hi;
     this.top = top;
     // One buffer per table: the whole-minute CDF, the far tail's points and (role 'density') the weights.
-    const farCount = hi > top ? (hi - top) / FAR_STEP + 1 : 0;
+    const farCount = h === 1 && hi > top ? (hi - top) / FAR_STEP + 1 : 0;
     const weights = role === 'density' ? coreIndex + nodes : 0;
-    const farNodes = farCount > 0 ? nodes - near : 0;
+    const farNodes = hi > top ? nodes - near : 0;
     const store = floatChunks.take(n + farCount + weights + 3 * farNodes);
     const cdf = store.subarray(0, n);
     const far = store.subarray(n, n + farCount);
@@ -163,15 +186,23 @@ export class DrawTable {
       this.weight = EMPTY;
       this.tailIndex = EMPTY_INDEX;
       this.tailWeight = EMPTY;
+      this.kinks = kinksOf(dist);
+      this.cellMasses = false;
     } else {
+      this.kinks = EMPTY;
       const lowMass = checked(dist.cdf(lo), lo, 'CDF');
       this.lowMass = lowMass;
       const weight = store.subarray(n + farCount, n + farCount + coreIndex + 1);
       const tailWeight = store.subarray(n + farCount + coreIndex + 1);
       const tailIndex = intChunks.take(nodes - 1);
       for (let k = 1; k < nodes; k++) tailIndex[k - 1] = scratchTail[k]! - lo;
-      let endCorrection = trapezoidWeights(dist, lo, core, hi, weight);
-      correctJumps(dist, lo, coreIndex, weight);
+      let endCorrection = trapezoidWeights(dist, lo, core, hi, weight, h);
+      correctJumps(dist, lo, coreIndex, weight, h);
+      if (h > 1) {
+        // From the unit-step rule in u = (x - lo) / step to masses in x.
+        for (let i = 0; i <= coreIndex; i++) weight[i] = weight[i]! * h;
+        endCorrection *= h;
+      }
       // The trapezoid is exact only for a smooth density. A density with a jump (a component
       // that starts at some minute) or a spike narrower than a minute integrates to the wrong
       // mass; then the core's weights become exact cell masses, F(x + 1/2) - F(x - 1/2), a
@@ -179,9 +210,10 @@ export class DrawTable {
       let coreMass = -endCorrection;
       for (let i = 0; i <= coreIndex; i++) coreMass += weight[i]!;
       const exactCoreMass = 1 - tailSurvival[0]! - lowMass;
-      if (Math.abs(coreMass - exactCoreMass) > CORE_MASS_TOLERANCE) {
+      this.cellMasses = Math.abs(coreMass - exactCoreMass) > CORE_MASS_TOLERANCE;
+      if (this.cellMasses) {
         endCorrection = 0;
-        exactCellWeights(dist, lo, coreIndex, weight, cdf, lowMass, 1 - tailSurvival[0]!);
+        exactCellWeights(dist, lo, coreIndex, weight, cdf, lowMass, 1 - tailSurvival[0]!, h);
       } else {
         cumulativeTrapezoid(weight, cdf, lowMass, coreIndex);
       }
@@ -196,7 +228,7 @@ export class DrawTable {
     const nodeF = scratchNodeF;
     nodeF[0] = Math.max(cdf[coreIndex]!, 1 - tailSurvival[0]!);
     for (let k = 1; k < nodes; k++) nodeF[k] = Math.max(nodeF[k - 1]!, 1 - tailSurvival[k]!);
-    fillThinTail(scratchTail, nodes, tailSurvival, scratchDecay, nodeF, cdf, far, lo, top);
+    if (h === 1) fillThinTail(scratchTail, nodes, tailSurvival, scratchDecay, nodeF, cdf, far, lo, top);
     // (With no thin tail at all, the last grid point keeps its own value, as F beyond it is exact.)
     if (nodes > 1) cdf[n - 1] = nodeF[near < nodes ? near : nodes - 1]!;
     if (farCount > 0) far[farCount - 1] = nodeF[nodes - 1]!;
@@ -236,7 +268,7 @@ export class DrawTable {
       const fa = cdf[a]!;
       const fb = cdf[a + 1]!;
       const t = fb > fa ? (u - fa) / (fb - fa) : 0;
-      return this.lo + a + t;
+      return this.step === 1 ? this.lo + a + t : this.lo + (a + t) * this.step;
     }
     // Beyond top: between the tail nodes, where log S is linear, solved exactly.
     const nodes = this.farNodes;
@@ -284,6 +316,23 @@ export function farInterpolate(far: Float64Array, top: number, x: number): numbe
 }
 
 const EMPTY = new Float64Array(0);
+
+// The density's jumps as [x0, J0, x1, J1, ...] (DrawTable.kinks), those with J > 0.
+function kinksOf(dist: DelayDistribution): Float64Array {
+  const jumps = (dist as DelayDistribution & GridEvaluation).densityJumps?.() ?? NO_JUMPS;
+  let count = 0;
+  for (const [, jump] of jumps) if (jump > 0) count++;
+  if (count === 0) return EMPTY;
+  const out = new Float64Array(2 * count);
+  let k = 0;
+  for (const [at, jump] of jumps) {
+    if (!(jump > 0)) continue;
+    out[k++] = at;
+    out[k++] = jump;
+  }
+  return out;
+}
+
 const NO_JUMPS: readonly (readonly [number, number, number])[] = [];
 
 // Tables take their arrays as views of shared chunks. A scoring run builds thousands of tables;
@@ -421,23 +470,28 @@ function monotoneCore(cdf: Float64Array, coreIndex: number): void {
 // The core's trapezoid weights (the density at each minute, halved at the core's end) into
 // weight, with the Euler-Maclaurin end correction; returns the correction's share carried by
 // the first tail node (subtracted there by tailCellWeights).
-function trapezoidWeights(dist: DelayDistribution, lo: number, core: number, hi: number, weight: Float64Array): number {
-  const coreIndex = core - lo;
+// With a step h, all of it in u = (x - lo) / h (unit step; the caller scales the weights by h).
+function trapezoidWeights(dist: DelayDistribution, lo: number, core: number, hi: number, weight: Float64Array, h: number): number {
+  const coreIndex = (core - lo) / h;
   const grid = (dist as DelayDistribution & GridEvaluation).pdfGrid;
   if (grid) {
-    grid.call(dist, lo, weight);
-    for (let i = 0; i <= coreIndex; i++) checkedDensity(weight[i]!, lo + i);
-  } else for (let x = lo; x <= core; x++) weight[x - lo] = checkedDensity(dist.pdf(x), x);
+    if (h === 1) grid.call(dist, lo, weight);
+    else grid.call(dist, lo, weight, h);
+    for (let i = 0; i <= coreIndex; i++) checkedDensity(weight[i]!, lo + i * h);
+  } else for (let i = 0; i <= coreIndex; i++) weight[i] = checkedDensity(dist.pdf(lo + i * h), lo + i * h);
   weight[coreIndex] = weight[coreIndex]! / 2;
   // Euler-Maclaurin end correction of the core's trapezoid at its last point c:
   // -(1/12) (f g)'(c), with f'(c) by a central difference and g'(c) ~ (g(c+2) - g(c-2)) / 4,
   // carried by the weights at c - 2 and at c + 2 (the first tail node). Both stay positive.
-  if (core - 2 > lo && core + 2 < hi) {
+  // With a step h the terms are h^2 / 12 times f'(c) g(c) and f(c) g'(c) in x, g'(c) from c - 2h
+  // and the first tail node, c + 2 (2 / 48 = (1 / 12) / (2 + 2) at h = 1).
+  if (core - 2 * h > lo && core + 2 < hi) {
     const fc = 2 * weight[coreIndex]!;
-    const slope = (dist.pdf(core + 1) - weight[coreIndex - 1]!) / 2;
+    const slope = (dist.pdf(core + h) - weight[coreIndex - 1]!) / 2;
+    const carried = h === 1 ? fc / 48 : (h * fc) / (12 * (2 + 2 * h));
     weight[coreIndex] = weight[coreIndex]! - slope / 12;
-    weight[coreIndex - 2] = weight[coreIndex - 2]! + fc / 48;
-    return fc / 48;
+    weight[coreIndex - 2] = weight[coreIndex - 2]! + carried;
+    return carried;
   }
   return 0;
 }
@@ -449,12 +503,15 @@ function trapezoidWeights(dist: DelayDistribution, lo: number, core: number, hi:
 // linear between k and k + 1 that moves J ((1 - r)^2 / 2 - 1/12) + K B2 (1 - r) / 2 onto
 // the weight at k and J (1/12 - r^2 / 2) + K B2 r / 2 onto the one at k + 1. A weight
 // that this would make negative is left alone, and the mass check then decides.
-function correctJumps(dist: DelayDistribution, lo: number, coreIndex: number, weight: Float64Array): void {
+// With a step h the same in u = (x - lo) / h, where the slope jump is K h.
+function correctJumps(dist: DelayDistribution, lo: number, coreIndex: number, weight: Float64Array, h: number): void {
   const jumps = (dist as DelayDistribution & GridEvaluation).densityJumps?.() ?? NO_JUMPS;
-  for (const [at, jump, slopeJump] of jumps) {
-    const k = Math.ceil(at) - 1;
-    const r = at - k;
-    const i = k - lo;
+  for (const [at, jump, unitSlopeJump] of jumps) {
+    const u = h === 1 ? at : (at - lo) / h;
+    const k = Math.ceil(u) - 1;
+    const r = u - k;
+    const i = h === 1 ? k - lo : k;
+    const slopeJump = unitSlopeJump * h;
     if (i < 0 || i + 1 >= coreIndex - 2 || !(jump > 0)) continue;
     const b2 = r * r - r + 1 / 6;
     const atK = weight[i]! + jump * ((1 - r) * (1 - r) / 2 - 1 / 12) + (slopeJump * b2 * (1 - r)) / 2;
@@ -467,19 +524,20 @@ function correctJumps(dist: DelayDistribution, lo: number, coreIndex: number, we
 }
 
 // The core's weights as exact cell masses from F at every half minute, and F on the core.
-function exactCellWeights(dist: DelayDistribution, lo: number, coreIndex: number, weight: Float64Array, cdf: Float64Array, lowMass: number, coreF: number): void {
+// (With a step h, cells h wide about the core's points.)
+function exactCellWeights(dist: DelayDistribution, lo: number, coreIndex: number, weight: Float64Array, cdf: Float64Array, lowMass: number, coreF: number, h: number): void {
   weight.fill(0);
-  // F at every half minute of the core: half[j] = F(lo + j / 2).
+  // F at every half step of the core: half[j] = F(lo + j h / 2).
   if (scratchHalf.length < 2 * coreIndex) scratchHalf = new Float64Array(4 * coreIndex);
   const half = scratchHalf.subarray(0, 2 * coreIndex);
   const halfGrid = (dist as DelayDistribution & GridEvaluation).cdfGrid;
-  if (halfGrid) halfGrid.call(dist, lo, half, 0.5);
-  else for (let j = 0; j < half.length; j++) half[j] = dist.cdf(lo + j / 2);
+  if (halfGrid) halfGrid.call(dist, lo, half, h / 2);
+  else for (let j = 0; j < half.length; j++) half[j] = dist.cdf(lo + (j * h) / 2);
   let previous = lowMass;
   cdf[0] = previous;
   for (let i = 0; i < coreIndex; i++) {
-    const x = lo + i;
-    const upper = Math.max(previous, checked(half[2 * i + 1]!, x + 0.5, 'CDF'));
+    const x = lo + i * h;
+    const upper = Math.max(previous, checked(half[2 * i + 1]!, x + h / 2, 'CDF'));
     const mass = upper - previous;
     if (i === 0) weight[0]! += mass;
     else {
@@ -689,7 +747,9 @@ function invertByBisection(dist: DelayDistribution, u: number, a0: number, b0: n
  * keeps any correlation the bundle's joint draws carry between routes.
  */
 export class RouteTables {
-  private readonly tables: (DrawTable | undefined)[];
+  /** Tables by step: 1, 2, 4 minutes (only departures' density tables come in the coarser ones). */
+  private readonly tables: (DrawTable | undefined)[][];
+  private readonly built = [0, 0, 0];
 
   constructor(
     readonly posterior: RoutePosterior,
@@ -698,7 +758,7 @@ export class RouteTables {
     if (!Number.isInteger(draws) || draws < 1 || draws > posterior.drawCount) {
       throw new RangeError(`joint draws must be a whole number in [1, ${posterior.drawCount}], got ${draws}`);
     }
-    this.tables = new Array<DrawTable | undefined>(draws);
+    this.tables = [new Array<DrawTable | undefined>(draws)];
   }
 
   /** The route's own draw index behind joint draw t. */
@@ -712,22 +772,41 @@ export class RouteTables {
   }
 
   /**
-   * The table of joint draw t: a CDF table for arrivals, a density table for departures. Tables
-   * are built in draw order (all before t too), each starting its grid searches where the one
-   * before ended, so a table never depends on the order in which they are asked for.
+   * The table of joint draw t: a CDF table for arrivals, a density table for departures (with
+   * the given step, 1, 2 or 4 minutes; arrivals' tables have step 1). Tables of a step are built
+   * in draw order (all before t too), each starting its grid searches where the one before
+   * ended, so a table never depends on the order in which they are asked for.
    */
-  table(t: number): DrawTable {
-    let table = this.tables[t];
+  table(t: number, step = 1): DrawTable {
+    const level = step === 1 ? 0 : step === 2 ? 1 : step === 4 ? 2 : -1;
+    if (level < 0 || (level > 0 && this.posterior.kind === 'arrival')) throw new RangeError(`no ${this.posterior.kind} table with a step of ${step} minutes`);
+    const tables = (this.tables[level] ??= new Array<DrawTable | undefined>(this.draws));
+    let table = tables[t];
     if (!table) {
       const role = this.posterior.kind === 'arrival' ? 'cdf' : 'density';
-      for (; this.built <= t; this.built++) {
-        const s = this.built;
-        table = new DrawTable(this.posterior.draw(this.drawIndex(s)), role, this.tables[s - 1]?.searched);
-        this.tables[s] = table;
+      for (; this.built[level]! <= t; this.built[level]!++) {
+        const s = this.built[level]!;
+        const dist = this.posterior.draw(this.drawIndex(s));
+        const hint = tables[s - 1]?.searched;
+        table = new DrawTable(dist, role, hint, step);
+        // Exact cell masses are right to second order only: at a coarse step, a density that
+        // needs them gets a finer table instead.
+        for (let finer = step / 2; table.cellMasses && finer >= 1; finer /= 2) table = new DrawTable(dist, role, hint, finer);
+        tables[s] = table;
       }
     }
     return table!;
   }
 
-  private built = 0;
+  /** The featureScale of joint draw t's distribution (NaN when it has none). */
+  featureScale(t: number): number {
+    const dist = this.distribution(t) as DelayDistribution & GridEvaluation;
+    return dist.featureScale ? dist.featureScale() : NaN;
+  }
+
+  /** Whether joint draw t's density jumps anywhere (densityJumps). */
+  jumps(t: number): boolean {
+    const dist = this.distribution(t) as DelayDistribution & GridEvaluation;
+    return (dist.densityJumps?.().length ?? 0) > 0;
+  }
 }

@@ -275,6 +275,16 @@ export class TailMixtureDistribution implements DelayDistribution {
       });
   }
 
+  /**
+   * The narrowest component's width: a Gumbel's or t's scale; for a Lomax, lambda / (alpha + 1),
+   * the length over which its density falls by a factor e just after its start.
+   */
+  featureScale(): number {
+    let narrowest = Infinity;
+    for (const c of this.parts) if (c.weight > 0) narrowest = Math.min(narrowest, c.kind === 'lomax' ? c.scale / (c.shape + 1) : c.scale);
+    return narrowest;
+  }
+
   sample(rng: Rng): number {
     return componentSample(this.parts[componentIndex(this.weights, rng.uniform())]!, rng);
   }
