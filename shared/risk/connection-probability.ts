@@ -30,7 +30,7 @@ export function drawMakeProbability(arrival: DrawTable, departure: DrawTable, m:
 export function drawMakeProbabilityInto(arrival: DrawTable, departure: DrawTable, m: number, out: Float64Array, t: number): void {
   const shift = m + departure.lo - arrival.lo;
   const h = departure.step;
-  const inStart = Math.min(departure.coreLength, Math.max(0, h === 1 ? -shift : Math.ceil(-shift / h)));
+  const inStart = Math.min(departure.coreLength, Math.max(0, Math.ceil(-shift / h)));
   partial[0] = departure.lowMass * arrival.cdfAt(m + departure.lo);
   finishSum(arrival, departure, m, inStart, 0, out, t);
 }
@@ -135,15 +135,13 @@ function finishSum(arrival: DrawTable, departure: DrawTable, m: number, from: nu
   // tests). Added back here, with f_D read off D's weights: even at a step of 1 minute a severe
   // component that starts with a high density was off by 1e-4 without it.
   const kinks = arrival.kinks;
-  {
-    for (let k = 0; k < kinks.length; k += 2) {
-      const u = (kinks[k]! - m - lo) / h;
-      const j = Math.floor(u);
-      if (j < 1 || j + 1 >= coreLength - 2) continue;
-      const theta = u - j;
-      const density = ((1 - theta) * w[j]! + theta * w[j + 1]!) / h;
-      sum += (h * h * kinks[k + 1]! * density * (theta * theta - theta + 1 / 6)) / 2;
-    }
+  for (let k = 0; k < kinks.length; k += 2) {
+    const u = (kinks[k]! - m - lo) / h;
+    const j = Math.floor(u);
+    if (j < 1 || j + 1 >= coreLength - 2) continue;
+    const theta = u - j;
+    const density = ((1 - theta) * w[j]! + theta * w[j + 1]!) / h;
+    sum += (h * h * kinks[k + 1]! * density * (theta * theta - theta + 1 / 6)) / 2;
   }
   out[t] = Math.min(1, sum);
 }

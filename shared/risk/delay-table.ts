@@ -113,16 +113,16 @@ export class DrawTable {
 
   /**
    * Role 'cdf': the Lomax-like starts of the density, as [x0, J0, x1, J1, ...] (J the density's
-   * jump there, a kink in F): the quadrature at a step over 1 minute corrects for each.
+   * jump there, a kink in F): the quadrature corrects for each (finishSum in connection-probability.ts).
    */
   readonly kinks: Float64Array;
 
   /**
    * `hint`: the searches' results of a similar draw, to start from (the answers do not depend on
    * it). `step`: role 'density' only, the core's spacing in minutes (1, 2 or 4): the weights sit
-   * at lo, lo + step, ..., and the tail nodes start 2 steps past the core. The trapezoid's error
-   * on a smooth density falls like exp(-pi^2 w / step) for features w minutes wide (Trefethen &
-   * Weideman 2014, section 3), so a density a few minutes wide loses nothing at 2 or 4.
+   * at lo, lo + step, ..., up to the first point past the searched core; the tail nodes are the
+   * same whatever the step. Which step a pair of draws can take is quadratureStep's choice
+   * (connection-probability.ts).
    */
   constructor(
     readonly dist: DelayDistribution,
@@ -749,7 +749,10 @@ function invertByBisection(dist: DelayDistribution, u: number, a0: number, b0: n
 export class RouteTables {
   /** Tables by step: 1, 2, 4 minutes (only departures' density tables come in the coarser ones). */
   private readonly tables: (DrawTable | undefined)[][];
-  private readonly built = [0, 0, 0];
+  private built = 0;
+  /** Per draw, worked out once for every pair that uses the route: featureScale and whether the density jumps. */
+  private scales?: Float64Array;
+  private jumpy?: Uint8Array;
 
   constructor(
     readonly posterior: RoutePosterior,
@@ -773,9 +776,11 @@ export class RouteTables {
 
   /**
    * The table of joint draw t: a CDF table for arrivals, a density table for departures (with
-   * the given step, 1, 2 or 4 minutes; arrivals' tables have step 1). Tables of a step are built
-   * in draw order (all before t too), each starting its grid searches where the one before
-   * ended, so a table never depends on the order in which they are asked for.
+   * the given step, 1, 2 or 4 minutes; arrivals' tables have step 1). Step-1 tables are built in
+   * draw order (all before t too), each starting its grid searches where the one before ended;
+   * a coarser one is built alone, starting from draw t - 1's searches at whatever step that was
+   * built (the searches do not depend on the step), since a pair's draws take different steps.
+   * The hint only speeds the searches, so a table never depends on the order of the asking.
    */
   table(t: number, step = 1): DrawTable {
     const level = step === 1 ? 0 : step === 2 ? 1 : step === 4 ? 2 : -1;
@@ -784,15 +789,20 @@ export class RouteTables {
     let table = tables[t];
     if (!table) {
       const role = this.posterior.kind === 'arrival' ? 'cdf' : 'density';
-      for (; this.built[level]! <= t; this.built[level]!++) {
-        const s = this.built[level]!;
-        const dist = this.posterior.draw(this.drawIndex(s));
-        const hint = tables[s - 1]?.searched;
+      if (level === 0) {
+        for (; this.built <= t; this.built++) {
+          const s = this.built;
+          table = new DrawTable(this.posterior.draw(this.drawIndex(s)), role, tables[s - 1]?.searched);
+          tables[s] = table;
+        }
+      } else {
+        const dist = this.posterior.draw(this.drawIndex(t));
+        const hint = t > 0 ? this.tables.find((byDraw) => byDraw?.[t - 1])?.[t - 1]?.searched : undefined;
         table = new DrawTable(dist, role, hint, step);
         // Exact cell masses are right to second order only: at a coarse step, a density that
         // needs them gets a finer table instead.
         for (let finer = step / 2; table.cellMasses && finer >= 1; finer /= 2) table = new DrawTable(dist, role, hint, finer);
-        tables[s] = table;
+        tables[t] = table;
       }
     }
     return table!;
@@ -800,13 +810,23 @@ export class RouteTables {
 
   /** The featureScale of joint draw t's distribution (NaN when it has none). */
   featureScale(t: number): number {
-    const dist = this.distribution(t) as DelayDistribution & GridEvaluation;
-    return dist.featureScale ? dist.featureScale() : NaN;
+    this.describe(t);
+    return this.scales![t]!;
   }
 
   /** Whether joint draw t's density jumps anywhere (densityJumps). */
   jumps(t: number): boolean {
+    this.describe(t);
+    return this.jumpy![t] === 1;
+  }
+
+  // jumpy[t]: 0 not yet looked at, 1 jumps, 2 does not.
+  private describe(t: number): void {
+    const jumpy = (this.jumpy ??= new Uint8Array(this.draws));
+    const scales = (this.scales ??= new Float64Array(this.draws));
+    if (jumpy[t] !== 0) return;
     const dist = this.distribution(t) as DelayDistribution & GridEvaluation;
-    return (dist.densityJumps?.().length ?? 0) > 0;
+    scales[t] = dist.featureScale ? dist.featureScale() : NaN;
+    jumpy[t] = (dist.densityJumps?.().length ?? 0) > 0 ? 1 : 2;
   }
 }
