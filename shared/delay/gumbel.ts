@@ -55,7 +55,15 @@ export function gumbelSurvival(x: number, mu: number, beta: number): number {
  */
 export function oneMinusExpNeg(t: number): number {
   if (!(t < 1 / 32)) return -Math.expm1(-t);
-  return t * (1 - (t / 2) * (1 - (t / 3) * (1 - (t / 4) * (1 - (t / 5) * (1 - (t / 6) * (1 - (t / 7) * (1 - (t / 8) * (1 - t / 9))))))));
+  // Far in a right tail (the risk tables' last nodes): t^2 / 6 < 2e-17 relative is all that is left.
+  if (t < 1e-8) return t * (1 - 0.5 * t);
+  // Estrin's scheme with the coefficients 1 / k! written out: a Horner chain of divisions cost
+  // more than the rest of a risk table's tail node. Everything after the 1 is under 1/64, so
+  // its roundings move the result by well under an ulp.
+  const t2 = t * t;
+  const t4 = t2 * t2;
+  const rest = -0.5 * t + t2 * (1 / 6 - t * (1 / 24)) + t4 * (1 / 120 - t * (1 / 720) + t2 * (1 / 5040 - t * (1 / 40320)) + t4 * (1 / 362880));
+  return t * (1 + rest);
 }
 
 /**
@@ -154,19 +162,25 @@ export function addGumbelGrid(out: Float64Array, lo: number, step: number, mu: n
 }
 
 const NEGLIGIBLE_T = 36;
+/** The largest t expNegative takes. */
+export const EXP_NEGATIVE_MAX = NEGLIGIBLE_T;
 const SERIES_T = 1e-5;
 
 // e^{-t} for 0 <= t <= NEGLIGIBLE_T as e^{-k/64} from a table times the degree-5 Taylor
 // polynomial of e^{-r}, r = t - k/64 < 1/64: relative error under 3e-14 (r^6 / 720 < 2e-14, plus
 // rounding), for about a third of Math.exp's time. The grids spend most of their time here.
+// (The 64s are written out below: a module constant is a context load V8 may not fold.)
 const EXP_STEPS = 64;
 const EXP_TABLE = Float64Array.from({ length: NEGLIGIBLE_T * EXP_STEPS + 2 }, (_, k) => Math.exp(-k / EXP_STEPS));
 
-function expNegative(t: number): number {
-  const y = t * EXP_STEPS;
+/** e^{-t} within 3e-14 relative, for 0 <= t <= EXP_NEGATIVE_MAX only (not checked). */
+export function expNegative(t: number): number {
+  const y = t * 64;
   const k = y | 0;
-  const r = (y - k) / EXP_STEPS;
-  return EXP_TABLE[k]! * (1 - r * (1 - r * (0.5 - r * (1 / 6 - r * (1 / 24 - r / 120)))));
+  const r = (y - k) * (1 / 64);
+  // Estrin's scheme: shorter chains of dependent operations than Horner's.
+  const r2 = r * r;
+  return EXP_TABLE[k]! * (1 - r + r2 * (0.5 - r * (1 / 6) + r2 * (1 / 24 - r * (1 / 120))));
 }
 
 /**

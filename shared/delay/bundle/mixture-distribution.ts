@@ -5,7 +5,7 @@
 // the whole distribution (departure delays derived from arrival delays add the en-route
 // recovery offset).
 import type { Rng } from '../../inference/rng';
-import { addGumbelGrid, addGumbelSurvivals, gumbelExponentialSample, gumbelLogPdf, gumbelPdf, oneMinusExpNeg } from '../gumbel';
+import { addGumbelGrid, addGumbelSurvivals, EXP_NEGATIVE_MAX, expNegative, gumbelExponentialSample, gumbelLogPdf, gumbelPdf, oneMinusExpNeg } from '../gumbel';
 import { LOMAX_START_MINUTES, type TailFamily } from '../models/tail-mixture';
 import { logGamma, studentTCdf, studentTSample, studentTSurvival } from '../models/student-t';
 import { componentIndex } from '../mixture';
@@ -69,7 +69,28 @@ function lomaxSurvival(c: Component, x: number): number {
   return Math.exp(-c.shape * Math.log1p(v));
 }
 
-/** Points between exact evaluations in lomaxGrid's recurrence. */
+/** e^{-a} for a >= 0, by the table-based expNegative where it applies (3e-14 relative). */
+function expOfNegative(a: number): number {
+  return a <= EXP_NEGATIVE_MAX ? expNegative(a) : Math.exp(-a);
+}
+
+/**
+ * weight * S(xs[k]) added into out[k] for a Lomax component: lomaxSurvival with the exp by
+ * expOfNegative, within 3e-14 relative of it (the risk tables' tail nodes, where the Lomax's
+ * exp and log were a tenth of an arrival table's time).
+ */
+function addLomaxSurvivals(c: Component, xs: Int32Array, count: number, out: Float64Array): void {
+  const start = c.location;
+  const inverseScale = 1 / c.scale;
+  const alpha = c.shape;
+  const weight = c.weight;
+  for (let k = 0; k < count; k++) {
+    const v = (xs[k]! - start) * inverseScale;
+    out[k] = out[k]! + weight * (v <= 0 ? 1 : expOfNegative(alpha * Math.log1p(v)));
+  }
+}
+
+/** Points between direct evaluations in lomaxGrid's recurrence. */
 const LOMAX_RESYNC_POINTS = 32;
 /**
  * Relative error allowed per step of lomaxGrid's series: over LOMAX_RESYNC_POINTS steps g is
@@ -81,12 +102,14 @@ const LOMAX_STEP_ERROR = 1e-14;
  * A Lomax component's weighted F (or f) added into out at lo + i step. Both are made of
  * g(x) = (1 + v)^-p, v = (x - start) / lambda, with p = alpha for S and alpha + 1 for f. From one
  * point to the next g is multiplied by (1 + e)^-p, e = (step / lambda) / (1 + v), which shrinks
- * along the grid. Once e is small enough that the factor's binomial series to e^6 is off by
+ * along the grid. Once e is small enough that the factor's binomial series to e^8 is off by
  * under LOMAX_STEP_ERROR (the series alternates with falling terms there, so its first omitted
- * term, p (p + 1) ... (p + 6) / 7! e^7, bounds the error), g is stepped by that series and
- * recomputed exactly every LOMAX_RESYNC_POINTS points; before that, near the component's
- * start, every point is evaluated exactly. So a wide grid needs an exp and a log only for its
- * first points.
+ * term, p (p + 1) ... (p + 8) / 9! e^9, bounds the error), g is stepped by that series and
+ * recomputed directly every LOMAX_RESYNC_POINTS points; before that, near the component's
+ * start, every point is evaluated directly. So a wide grid needs a log and an exp only for its
+ * first points (a series to e^8 rather than e^6 starts three times nearer the start, which
+ * for the bundled fit's narrower severe components, lambda near 30 minutes, was over 100 points
+ * sooner). The direct evaluations take expOfNegative's exp, 3e-14 relative.
  */
 function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean, step: number): void {
   const n = out.length;
@@ -97,6 +120,7 @@ function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean
   const base = density ? 0 : c.weight;
   const first = Math.max(0, Math.ceil((c.location - lo) / step));
   const delta = step / lambda;
+  const inverseLambda = 1 / lambda;
   // Binomial coefficients of (1 + e)^-p: 1 - p e + p (p + 1) / 2 e^2 - ...
   const c1 = -p;
   const c2 = (-c1 * (p + 1)) / 2;
@@ -105,19 +129,21 @@ function lomaxGrid(c: Component, lo: number, out: Float64Array, density: boolean
   const c5 = (-c4 * (p + 4)) / 5;
   const c6 = (-c5 * (p + 5)) / 6;
   const c7 = (-c6 * (p + 6)) / 7;
-  const seriesLimit = Math.pow(LOMAX_STEP_ERROR / Math.abs(c7), 1 / 7);
+  const c8 = (-c7 * (p + 7)) / 8;
+  const c9 = (-c8 * (p + 8)) / 9;
+  const seriesLimit = Math.pow(LOMAX_STEP_ERROR / Math.abs(c9), 1 / 9);
   let g = 0;
   let stepped = LOMAX_RESYNC_POINTS;
   for (let i = first; i < n; i++) {
-    const onePlusV = 1 + (lo + i * step - c.location) / lambda;
+    const onePlusV = 1 + (lo + i * step - c.location) * inverseLambda;
     if (stepped >= LOMAX_RESYNC_POINTS) {
-      g = Math.exp(-p * Math.log(onePlusV));
+      g = expOfNegative(p * Math.log(onePlusV));
       stepped = 0;
     }
     out[i]! += base + factor * g;
     const e = delta / onePlusV;
     if (e <= seriesLimit) {
-      g *= 1 + e * (c1 + e * (c2 + e * (c3 + e * (c4 + e * (c5 + e * c6)))));
+      g *= 1 + e * (c1 + e * (c2 + e * (c3 + e * (c4 + e * (c5 + e * (c6 + e * (c7 + e * c8)))))));
       stepped++;
     } else stepped = LOMAX_RESYNC_POINTS;
   }
@@ -209,6 +235,7 @@ export class TailMixtureDistribution implements DelayDistribution {
     out.fill(0, 0, count);
     for (const c of this.parts) {
       if (c.kind === 'gumbel') addGumbelSurvivals(xs, count, out, c.location, c.scale, c.weight);
+      else if (c.kind === 'lomax') addLomaxSurvivals(c, xs, count, out);
       else for (let k = 0; k < count; k++) out[k] = out[k]! + c.weight * componentSurvival(c, xs[k]!);
     }
   }

@@ -5,6 +5,8 @@ import { describe, expect, it } from 'vitest';
 import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
 import {
   EULER_GAMMA,
+  EXP_NEGATIVE_MAX,
+  expNegative,
   gumbelCdf,
   gumbelDistribution,
   gumbelExponentialSample,
@@ -60,6 +62,15 @@ describe('oneMinusExpNeg, the survival of a Gumbel given t = e^{-z}', () => {
     expect(oneMinusExpNeg(0)).toBe(0);
     expect(oneMinusExpNeg(Infinity)).toBe(1);
     expect(oneMinusExpNeg(Number.NaN)).toBeNaN();
+  });
+});
+
+describe('expNegative, the table-based e^{-t} of the grids', () => {
+  it('agrees with Math.exp to 3e-14 relative over its whole range, table points and between', () => {
+    const rng = createRng(9);
+    const ts = [0, 1 / 64, 0.5, 1, 35.99, EXP_NEGATIVE_MAX, ...Array.from({ length: 20_000 }, () => EXP_NEGATIVE_MAX * rng.uniform())];
+    for (const t of ts) expectClose(expNegative(t), Math.exp(-t), 3e-14, `e^-${t}`);
+    expect(expNegative(0)).toBe(1);
   });
 });
 
