@@ -615,7 +615,12 @@ function fillThinTail(tail: Int32Array, nodes: number, tailSurvival: Float64Arra
       } else {
         const ratio = Math.exp(logRate);
         let s = s0;
-        for (let x = x0; x < x1; x++, s *= ratio) cdf[x - lo] = Math.min(f1, Math.max(f0, 1 - s));
+        // Comparisons rather than Math.min and Math.max, whose NaN and -0 rules cost more than
+        // the step itself (1 - s is never NaN here).
+        for (let x = x0; x < x1; x++, s *= ratio) {
+          const f = 1 - s;
+          cdf[x - lo] = f < f0 ? f0 : f > f1 ? f1 : f;
+        }
       }
     } else {
       // Far points x0 <= top + j * FAR_STEP < x1, S stepped by a constant factor between them.
@@ -625,7 +630,10 @@ function fillThinTail(tail: Int32Array, nodes: number, tailSurvival: Float64Arra
       } else {
         const ratio = Math.exp(logRate * FAR_STEP);
         let s = s0 * Math.exp(logRate * (top + j0 * FAR_STEP - x0));
-        for (let j = j0; top + j * FAR_STEP < x1; j++, s *= ratio) far[j] = Math.min(f1, Math.max(f0, 1 - s));
+        for (let j = j0; top + j * FAR_STEP < x1; j++, s *= ratio) {
+          const f = 1 - s;
+          far[j] = f < f0 ? f0 : f > f1 ? f1 : f;
+        }
       }
     }
   }
@@ -776,11 +784,13 @@ export class RouteTables {
 
   /**
    * The table of joint draw t: a CDF table for arrivals, a density table for departures (with
-   * the given step, 1, 2 or 4 minutes; arrivals' tables have step 1). Step-1 tables are built in
-   * draw order (all before t too), each starting its grid searches where the one before ended;
-   * a coarser one is built alone, starting from draw t - 1's searches at whatever step that was
-   * built (the searches do not depend on the step), since a pair's draws take different steps.
-   * The hint only speeds the searches, so a table never depends on the order of the asking.
+   * the given step, 1, 2 or 4 minutes; arrivals' tables have step 1). Arrivals' tables are
+   * built in draw order (all before t too: every draw is used), each starting its grid searches
+   * where the one before ended. A departure table is built alone, starting from the searches of
+   * the nearest draw built at any step (the searches do not depend on the step): a pair's draws
+   * take different steps, and a route's pairs different ones again, so building every draw
+   * before t at each step asked for built most departure draws twice. The hint only speeds the
+   * searches, so a table never depends on the order of the asking.
    */
   table(t: number, step = 1): DrawTable {
     const level = step === 1 ? 0 : step === 2 ? 1 : step === 4 ? 2 : -1;
@@ -788,16 +798,16 @@ export class RouteTables {
     const tables = (this.tables[level] ??= new Array<DrawTable | undefined>(this.draws));
     let table = tables[t];
     if (!table) {
-      const role = this.posterior.kind === 'arrival' ? 'cdf' : 'density';
-      if (level === 0) {
+      if (this.posterior.kind === 'arrival') {
         for (; this.built <= t; this.built++) {
           const s = this.built;
-          table = new DrawTable(this.posterior.draw(this.drawIndex(s)), role, tables[s - 1]?.searched);
+          table = new DrawTable(this.posterior.draw(this.drawIndex(s)), 'cdf', tables[s - 1]?.searched);
           tables[s] = table;
         }
       } else {
         const dist = this.posterior.draw(this.drawIndex(t));
-        const hint = t > 0 ? this.tables.find((byDraw) => byDraw?.[t - 1])?.[t - 1]?.searched : undefined;
+        const role = 'density';
+        const hint = this.nearestSearched(t);
         table = new DrawTable(dist, role, hint, step);
         // Exact cell masses are right to second order only: at a coarse step, a density that
         // needs them gets a finer table instead.
@@ -806,6 +816,20 @@ export class RouteTables {
       }
     }
     return table!;
+  }
+
+  /** The searches of the built table nearest to draw t (the draw before first), at any step. */
+  private nearestSearched(t: number): readonly [number, number, number] | undefined {
+    for (let d = 1; d < this.draws; d++) {
+      for (const s of [t - d, t + d]) {
+        if (s < 0 || s >= this.draws) continue;
+        for (const byDraw of this.tables) {
+          const table = byDraw?.[s];
+          if (table) return table.searched;
+        }
+      }
+    }
+    return undefined;
   }
 
   /** The featureScale of joint draw t's distribution (NaN when it has none). */

@@ -584,4 +584,28 @@ describe('grid searches started from the draw before', () => {
       });
     }
   });
+
+  it('builds a departure table alone, at the step asked for, from the nearest draw built', () => {
+    // A route's pairs ask for scattered draws at different steps: only those are built, and each
+    // equals a table built with no hint at all.
+    const draws = etas.map((eta) => new TailMixtureDistribution('gumbel-gumbel', eta.slice(0, 5), 4, 6.1));
+    const asked: number[] = [];
+    const tables = route('departure', (s) => (asked.push(s), draws[s]!), draws.length);
+    const order: [number, number][] = [[30, 1], [5, 2], [31, 1], [6, 1], [29, 4], [5, 1]];
+    for (const [t, step] of order) {
+      const hinted = tables.table(t, step);
+      // (A coarse table that needs exact cell masses is rebuilt finer, as RouteTables does.)
+      let fresh = new DrawTable(draws[t]!, 'density', undefined, step);
+      while (fresh.cellMasses && fresh.step > 1) fresh = new DrawTable(draws[t]!, 'density', undefined, fresh.step / 2);
+      expect(hinted.step, `draw ${t}`).toBe(fresh.step);
+      expect(hinted.searched, `draw ${t} step ${step}`).toEqual(fresh.searched);
+      expect(Array.from(hinted.weight)).toEqual(Array.from(fresh.weight));
+      expect(Array.from(hinted.tailWeight)).toEqual(Array.from(fresh.tailWeight));
+    }
+    expect(asked).toEqual(order.map(([t]) => t));
+    // Asked again, nothing new is built.
+    tables.table(30, 1);
+    tables.table(5, 2);
+    expect(asked.length).toBe(order.length);
+  });
 });
