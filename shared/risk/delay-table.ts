@@ -323,7 +323,7 @@ function kinksOf(dist: DelayDistribution): Float64Array {
   let count = 0;
   for (const [, jump] of jumps) if (jump > 0) count++;
   if (count === 0) return EMPTY;
-  const out = new Float64Array(2 * count);
+  const out = floatChunks.take(2 * count);
   let k = 0;
   for (const [at, jump] of jumps) {
     if (!(jump > 0)) continue;

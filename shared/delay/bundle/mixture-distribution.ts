@@ -294,13 +294,16 @@ export class TailMixtureDistribution implements DelayDistribution {
    * and its slope by -(alpha + 1) J / lambda.
    */
   densityJumps(): readonly (readonly [number, number, number])[] {
-    return this.parts
+    // Worked out once: the risk tables ask several times per draw, and each answer was garbage.
+    return (this.jumps ??= this.parts
       .filter((c) => c.kind === 'lomax')
       .map((c) => {
         const jump = (c.weight * c.shape) / c.scale;
         return [c.location, jump, (-(c.shape + 1) * jump) / c.scale] as const;
-      });
+      }));
   }
+
+  private jumps?: readonly (readonly [number, number, number])[];
 
   /**
    * The narrowest component's width: a Gumbel's or t's scale; for a Lomax, lambda / (alpha + 1),
