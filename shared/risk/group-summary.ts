@@ -89,6 +89,7 @@ function addRow(counts: Uint32Array, row: Uint8Array, w: number): void {
 export function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
   const byKey = new Map<string, { sample: Omit<TopConnection, 'travelers' | 'expectedMisses'>; who: Set<string> }>();
   for (const trip of trips) {
+    const traveler = travelerKey(trip);
     for (const c of trip.connections) {
       if (!c.scored || c.pMake === null) continue;
       const inbound = trip.legs[c.inboundLeg];
@@ -110,7 +111,7 @@ export function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
         };
         byKey.set(key, entry);
       }
-      entry.who.add(travelerKey(trip));
+      entry.who.add(traveler);
     }
   }
   return [...byKey.values()]
