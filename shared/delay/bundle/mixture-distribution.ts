@@ -66,7 +66,7 @@ function components(family: TailFamily, eta: ArrayLike<number>, df: number, shif
 function lomaxSurvival(c: Component, x: number): number {
   const v = (x - c.location) / c.scale;
   if (v <= 0) return 1;
-  return Math.exp(-c.shape * Math.log1p(v));
+  return expOfNegative(c.shape * Math.log1p(v));
 }
 
 /** e^{-a} for a >= 0, by the table-based expNegative where it applies (3e-14 relative). */
@@ -159,7 +159,11 @@ function componentSurvival(c: Component, x: number): number {
 }
 
 function componentCdf(c: Component, x: number): number {
-  if (c.kind === 'gumbel') return Math.exp(-Math.exp(-(x - c.location) / c.scale));
+  if (c.kind === 'gumbel') {
+    // e^{-t}, t = e^{-z} >= 0, by the table exp where it applies (3e-14 relative).
+    const t = Math.exp(-(x - c.location) / c.scale);
+    return expOfNegative(t);
+  }
   if (c.kind === 't') return studentTCdf(x, c.location, c.scale, c.shape);
   return 1 - lomaxSurvival(c, x);
 }

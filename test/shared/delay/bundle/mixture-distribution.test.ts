@@ -2,8 +2,9 @@
 // by the risk tables) against its own point-by-point cdf and pdf, whose Gumbel part is checked
 // against @stdlib/stats-base-dists-gumbel in test/shared/delay/gumbel.test.ts.
 import { describe, expect, it } from 'vitest';
+import stdlibGumbel from '@stdlib/stats-base-dists-gumbel';
 import { TailMixtureDistribution } from '../../../../shared/delay/bundle/mixture-distribution';
-import { FAMILY_PARAMETERS, type TailFamily } from '../../../../shared/delay/models/tail-mixture';
+import { FAMILY_PARAMETERS, LOMAX_START_MINUTES, type TailFamily } from '../../../../shared/delay/models/tail-mixture';
 import { createRng } from '../../../../shared/inference/rng';
 
 const FAMILIES = Object.keys(FAMILY_PARAMETERS) as TailFamily[];
@@ -159,5 +160,32 @@ describe('TailMixtureDistribution, the Lomax grid recurrence', () => {
       if (!(Math.abs(F[i]! - dist.cdf(x)) <= 1e-12)) throw new Error(`F(${x}): grid ${F[i]}, point ${dist.cdf(x)}`);
       if (!(Math.abs(f[i]! - dist.pdf(x)) <= 1e-12 * Math.max(1e-3, dist.pdf(x)))) throw new Error(`f(${x}): grid ${f[i]}, point ${dist.pdf(x)}`);
     }
+  });
+});
+
+describe('TailMixtureDistribution point by point', () => {
+  // The three-part family written out from its parameters (FAMILY_PARAMETERS): the Gumbel parts'
+  // CDF from @stdlib/stats-base-dists-gumbel, the Lomax survival (1 + v)^-alpha by Math.pow, a
+  // different evaluation from the distribution's exp and log1p.
+  const sigmoid = (x: number) => 1 / (1 + Math.exp(-x));
+  it.each([0, 6.1])('gives the weighted sum of its parts as cdf and survival (shift %d)', (shift) => {
+    const eta = [-4, Math.log(11), 30, Math.log(40), -1.2, Math.log(35), Math.log(1.6), -0.8];
+    const dist = new TailMixtureDistribution('gumbel-gumbel-lomax', eta, 4, shift);
+    const w = sigmoid(eta[4]!);
+    const v = sigmoid(eta[7]!);
+    for (let x = -200; x <= 3000; x += 7.25) {
+      const lomaxS = x <= LOMAX_START_MINUTES + shift ? 1 : Math.pow(1 + (x - LOMAX_START_MINUTES - shift) / Math.exp(eta[5]!), -Math.exp(eta[6]!));
+      const cdf =
+        (1 - w) * stdlibGumbel.cdf(x, eta[0]! + shift, Math.exp(eta[1]!)) + w * (1 - v) * stdlibGumbel.cdf(x, eta[2]! + shift, Math.exp(eta[3]!)) + w * v * (1 - lomaxS);
+      const survival = 1 - cdf;
+      expect(Math.abs(dist.cdf(x) - cdf), `F(${x})`).toBeLessThanOrEqual(1e-13);
+      // The upper tail relative to its size (the sum above loses it once 1 - F is tiny).
+      if (survival > 1e-3) expect(Math.abs(dist.survival(x) - survival), `S(${x})`).toBeLessThanOrEqual(1e-12 * survival);
+      else expect(Math.abs(dist.survival(x) - survival), `S(${x})`).toBeLessThanOrEqual(1e-13);
+    }
+    expect(dist.cdf(Number.NaN)).toBeNaN();
+    expect(dist.cdf(-Infinity)).toBe(0);
+    expect(dist.cdf(Infinity)).toBe(1);
+    expect(dist.survival(Infinity)).toBe(0);
   });
 });
