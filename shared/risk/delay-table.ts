@@ -5,6 +5,7 @@
 // cheap: it only ever looks up F at whole minutes. (The trip simulation samples the draws'
 // distributions themselves, trip-simulation.ts.)
 import type { DelayDistribution, GridEvaluation, RoutePosterior } from '../delay/predictive';
+import { LASTING_TABLES, type TableStore } from './table-store';
 
 export type { GridEvaluation } from '../delay/predictive';
 
@@ -129,6 +130,7 @@ export class DrawTable {
     readonly role: TableRole,
     hint?: readonly [number, number, number],
     readonly step = 1,
+    store: TableStore = LASTING_TABLES,
   ) {
     if (!(step === 1 || ((step === 2 || step === 4) && role === 'density'))) throw new RangeError(`a ${role} table's step must be 1${role === 'density' ? ', 2 or 4' : ''}, got ${step}`);
     // The work is split into small functions below: each is optimised on its own and quickly,
@@ -173,10 +175,10 @@ export class DrawTable {
     const farCount = h === 1 && hi > top ? (hi - top) / FAR_STEP + 1 : 0;
     const weights = role === 'density' ? coreIndex + nodes : 0;
     const farNodes = hi > top ? nodes - near : 0;
-    const store = floatChunks.take(n + farCount + weights + 3 * farNodes);
-    const cdf = store.subarray(0, n);
-    const far = store.subarray(n, n + farCount);
-    this.farNodes = store.subarray(n + farCount + weights);
+    const buffer = store.floats(n + farCount + weights + 3 * farNodes);
+    const cdf = buffer.subarray(0, n);
+    const far = buffer.subarray(n, n + farCount);
+    this.farNodes = buffer.subarray(n + farCount + weights);
     this.cdf = cdf;
     this.coreLength = coreIndex + 1;
     this.highMass = tailSurvival[nodes - 1]!;
@@ -186,15 +188,15 @@ export class DrawTable {
       this.weight = EMPTY;
       this.tailIndex = EMPTY_INDEX;
       this.tailWeight = EMPTY;
-      this.kinks = kinksOf(dist);
+      this.kinks = kinksOf(dist, store);
       this.cellMasses = false;
     } else {
       this.kinks = EMPTY;
       const lowMass = checked(dist.cdf(lo), lo, 'CDF');
       this.lowMass = lowMass;
-      const weight = store.subarray(n + farCount, n + farCount + coreIndex + 1);
-      const tailWeight = store.subarray(n + farCount + coreIndex + 1);
-      const tailIndex = intChunks.take(nodes - 1);
+      const weight = buffer.subarray(n + farCount, n + farCount + coreIndex + 1);
+      const tailWeight = buffer.subarray(n + farCount + coreIndex + 1);
+      const tailIndex = store.ints(nodes - 1);
       for (let k = 1; k < nodes; k++) tailIndex[k - 1] = scratchTail[k]! - lo;
       let endCorrection = trapezoidWeights(dist, lo, core, hi, weight, h);
       correctJumps(dist, lo, coreIndex, weight, h);
@@ -318,12 +320,12 @@ export function farInterpolate(far: Float64Array, top: number, x: number): numbe
 const EMPTY = new Float64Array(0);
 
 // The density's jumps as [x0, J0, x1, J1, ...] (DrawTable.kinks), those with J > 0.
-function kinksOf(dist: DelayDistribution): Float64Array {
+function kinksOf(dist: DelayDistribution, store: TableStore): Float64Array {
   const jumps = (dist as DelayDistribution & GridEvaluation).densityJumps?.() ?? NO_JUMPS;
   let count = 0;
   for (const [, jump] of jumps) if (jump > 0) count++;
   if (count === 0) return EMPTY;
-  const out = floatChunks.take(2 * count);
+  const out = store.floats(2 * count);
   let k = 0;
   for (const [at, jump] of jumps) {
     if (!(jump > 0)) continue;
@@ -335,35 +337,6 @@ function kinksOf(dist: DelayDistribution): Float64Array {
 
 const NO_JUMPS: readonly (readonly [number, number, number])[] = [];
 
-// Tables take their arrays as views of shared chunks. A scoring run builds thousands of tables;
-// each typed array of its own would get its own off-heap store, which V8 allocates, zeroes and
-// tracks one by one, and that cost about as much as filling them. A chunk is freed once no table
-// in it is left; only the newest is held here. Views are handed out once, so they start zeroed.
-class Chunks<T extends Float64Array | Int32Array> {
-  private chunk: T;
-  private used = 0;
-
-  constructor(
-    private readonly make: (length: number) => T,
-    private readonly length: number,
-  ) {
-    this.chunk = make(0);
-  }
-
-  take(length: number): T {
-    if (length > this.length >> 2) return this.make(length);
-    if (this.used + length > this.chunk.length) {
-      this.chunk = this.make(this.length);
-      this.used = 0;
-    }
-    const view = this.chunk.subarray(this.used, this.used + length) as T;
-    this.used += length;
-    return view;
-  }
-}
-
-const floatChunks = new Chunks((n) => new Float64Array(n), 1 << 16);
-const intChunks = new Chunks((n) => new Int32Array(n), 1 << 14);
 const EMPTY_INDEX = new Int32Array(0);
 // Per-node working values, reused from table to table (tables are built one at a time).
 let scratchSurvival = new Float64Array(128);
@@ -762,9 +735,11 @@ export class RouteTables {
   private scales?: Float64Array;
   private jumpy?: Uint8Array;
 
+  /** `store`: where the tables' arrays come from (table-store.ts; a recycling one invalidates them on reset). */
   constructor(
     readonly posterior: RoutePosterior,
     readonly draws: number,
+    private readonly store: TableStore = LASTING_TABLES,
   ) {
     if (!Number.isInteger(draws) || draws < 1 || draws > posterior.drawCount) {
       throw new RangeError(`joint draws must be a whole number in [1, ${posterior.drawCount}], got ${draws}`);
@@ -801,17 +776,17 @@ export class RouteTables {
       if (this.posterior.kind === 'arrival') {
         for (; this.built <= t; this.built++) {
           const s = this.built;
-          table = new DrawTable(this.posterior.draw(this.drawIndex(s)), 'cdf', tables[s - 1]?.searched);
+          table = new DrawTable(this.posterior.draw(this.drawIndex(s)), 'cdf', tables[s - 1]?.searched, 1, this.store);
           tables[s] = table;
         }
       } else {
         const dist = this.posterior.draw(this.drawIndex(t));
         const role = 'density';
         const hint = this.nearestSearched(t);
-        table = new DrawTable(dist, role, hint, step);
+        table = new DrawTable(dist, role, hint, step, this.store);
         // Exact cell masses are right to second order only: at a coarse step, a density that
         // needs them gets a finer table instead.
-        for (let finer = step / 2; table.cellMasses && finer >= 1; finer /= 2) table = new DrawTable(dist, role, hint, finer);
+        for (let finer = step / 2; table.cellMasses && finer >= 1; finer /= 2) table = new DrawTable(dist, role, hint, finer, this.store);
         tables[t] = table;
       }
     }

@@ -6,6 +6,7 @@
 import type { PosteriorSource } from '../delay/predictive';
 import { ConnectionPair, minimumLayover } from './connection-probability';
 import { RouteTables } from './delay-table';
+import { TableStore } from './table-store';
 
 /** One pair of routes: the inbound leg's arrivals and the outbound leg's departures. */
 export interface PairJob {
@@ -68,24 +69,37 @@ const TABLE_PASSES = 6;
 const MIN_LAYOVER_PASSES = 2;
 
 /**
+ * The memory of a group's route tables, handed back when the group is solved and reused by the
+ * next (this thread solves one group at a time, synchronously).
+ */
+const groupTables = new TableStore(true);
+
+/**
  * Solves the jobs of one group against the source, with route tables built once for the group.
- * Every job's answer depends only on its own routes, slacks, MCT and the plan's settings.
+ * Every job's answer depends only on its own routes, slacks, MCT and the plan's settings. The
+ * tables live only while the group is solved: the answers are copies, and the tables' memory
+ * goes back to groupTables.
  */
 export function solveGroup(source: PosteriorSource, plan: PairPlan, group: readonly number[], answers: (PairAnswer | undefined)[]): void {
   const tables = new Map<string, RouteTables>();
   const tablesOf = (origin: string, destination: string, kind: 'arrival' | 'departure'): RouteTables => {
     const key = `${origin}-${destination}:${kind}`;
     let t = tables.get(key);
-    if (!t) tables.set(key, (t = new RouteTables(source.route(origin, destination, kind), plan.draws)));
+    if (!t) tables.set(key, (t = new RouteTables(source.route(origin, destination, kind), plan.draws, groupTables)));
     return t;
   };
-  for (const k of group) {
-    const job = plan.jobs[k]!;
-    const pair = new ConnectionPair(tablesOf(job.inbound.origin, job.inbound.destination, 'arrival'), tablesOf(job.outbound.origin, job.outbound.destination, 'departure'));
-    pair.prepare(job.slacks);
-    const byDraw = new Float64Array(job.slacks.length * plan.draws);
-    job.slacks.forEach((slack, i) => byDraw.set(pair.drawProbabilities(slack), i * plan.draws));
-    answers[k] = { byDraw, minLayover: minimumLayover(pair, job.mctMinutes, plan.target) };
+  try {
+    for (const k of group) {
+      const job = plan.jobs[k]!;
+      const pair = new ConnectionPair(tablesOf(job.inbound.origin, job.inbound.destination, 'arrival'), tablesOf(job.outbound.origin, job.outbound.destination, 'departure'));
+      pair.prepare(job.slacks);
+      const byDraw = new Float64Array(job.slacks.length * plan.draws);
+      job.slacks.forEach((slack, i) => byDraw.set(pair.drawProbabilities(slack), i * plan.draws));
+      answers[k] = { byDraw, minLayover: minimumLayover(pair, job.mctMinutes, plan.target) };
+    }
+  } finally {
+    tables.clear();
+    groupTables.reset();
   }
 }
 

@@ -85,6 +85,21 @@ describe('solving the plan', () => {
     same(answers);
   });
 
+  it('hands a group\'s table memory back even when the group fails, and the next answers are unchanged', () => {
+    // A source that fails on one route once it has tabulated others: the group stops midway.
+    const failing = syntheticSource();
+    const route = failing.route.bind(failing);
+    const bad = plan.jobs[plan.groups[0]!.at(-1)!]!.outbound;
+    failing.route = (origin, destination, kind) => {
+      if (origin === bad.origin && destination === bad.destination && kind === 'departure') throw new Error('no such route');
+      return route(origin, destination, kind);
+    };
+    expect(() => solveGroup(failing, plan, plan.groups[0]!, [])).toThrow(/no such route/);
+    const answers: (PairAnswer | undefined)[] = [];
+    for (const group of plan.groups) solveGroup(source, plan, group, answers);
+    same(answers);
+  });
+
   it('assembles into scoreTrips\'s result from answers solved in any order', () => {
     const answers: (PairAnswer | undefined)[] = [];
     for (const group of [...plan.groups].reverse()) solveGroup(source, plan, group, answers);
