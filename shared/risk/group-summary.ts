@@ -85,18 +85,32 @@ function addRow(counts: Uint32Array, row: Uint8Array, w: number): void {
   for (let i = 0; i < counts.length; i++) counts[i] = counts[i]! + w * row[i]!;
 }
 
-/** The connections that contribute most expected misses, among the best-ranked options. */
-export function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
-  const byKey = new Map<string, { sample: Omit<TopConnection, 'travelers' | 'expectedMisses'>; who: Set<string> }>();
-  for (const trip of trips) {
+type TopEntry = { sample: Omit<TopConnection, 'travelers' | 'expectedMisses'>; who: Set<string> };
+
+/**
+ * The connections that contribute most expected misses, among the best-ranked options (pass
+ * those). A connection is its pair of flights (flightKey). `legFlights[k][j]`, when given, is a
+ * number for the flight of leg j of trips[k], equal for equal flightKeys (scoreTrips has them):
+ * otherwise they are worked out here.
+ */
+export function topConnections(trips: readonly ScoredTrip[], legFlights?: readonly ArrayLike<number>[]): TopConnection[] {
+  const flightsOf = legFlights ?? flightNumbers(trips);
+  // By inbound flight, then outbound flight.
+  const byPair = new Map<number, Map<number, TopEntry>>();
+  const entries: TopEntry[] = [];
+  trips.forEach((trip, k) => {
     const traveler = travelerKey(trip);
+    const flights = flightsOf[k]!;
     for (const c of trip.connections) {
       if (!c.scored || c.pMake === null) continue;
       const inbound = trip.legs[c.inboundLeg];
       const outbound = trip.legs[c.inboundLeg + 1];
       if (!inbound || !outbound) continue;
-      const key = `${flightKey(inbound)}>${flightKey(outbound)}`;
-      let entry = byKey.get(key);
+      const inId = flights[c.inboundLeg]!;
+      let byOutbound = byPair.get(inId);
+      if (!byOutbound) byPair.set(inId, (byOutbound = new Map()));
+      const outId = flights[c.inboundLeg + 1]!;
+      let entry = byOutbound.get(outId);
       if (!entry) {
         entry = {
           sample: {
@@ -109,12 +123,13 @@ export function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
           },
           who: new Set(),
         };
-        byKey.set(key, entry);
+        byOutbound.set(outId, entry);
+        entries.push(entry);
       }
       entry.who.add(traveler);
     }
-  }
-  return [...byKey.values()]
+  });
+  return entries
     .map(({ sample, who }) => ({ ...sample, travelers: who.size, expectedMisses: who.size * sample.pMiss }))
     .sort(
       (a, b) =>
@@ -125,6 +140,19 @@ export function topConnections(trips: readonly ScoredTrip[]): TopConnection[] {
         cmp(a.outboundFlight, b.outboundFlight),
     )
     .slice(0, TOP_CONNECTIONS);
+}
+
+// Each leg's flight as a number, equal for equal flightKeys.
+function flightNumbers(trips: readonly ScoredTrip[]): Int32Array[] {
+  const ids = new Map<string, number>();
+  return trips.map((trip) =>
+    Int32Array.from(trip.legs, (leg) => {
+      const key = flightKey(leg);
+      let id = ids.get(key);
+      if (id === undefined) ids.set(key, (id = ids.size));
+      return id;
+    }),
+  );
 }
 
 function cmp(a: string, b: string): number {

@@ -146,6 +146,8 @@ interface ScoringState {
   readonly pairsOfTrips: RoutePair[][];
   readonly jobOf: Map<RoutePair, number>;
   readonly flights: SimFlight[];
+  /** Each trip's legs' flights, as indices into flights. */
+  readonly legFlights: Int32Array[];
   readonly simTrips: SimTrip[];
   readonly overrides: number;
 }
@@ -301,7 +303,7 @@ export function prepareScoring(parsed: ParsedTrips, source: PosteriorSource, opt
       deadlineSlackMinutes: Number.isFinite(deadlineMs) ? (deadlineMs - last.arriveUtcMs) / 60000 : null,
     };
   });
-  return { plan, state: { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, flights, simTrips, overrides: rules.length } };
+  return { plan, state: { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, flights, legFlights, simTrips, overrides: rules.length } };
 }
 
 /** What a prepared run's simulation decides on its own: see simulateScoring. */
@@ -346,7 +348,7 @@ export function simulateScoring(prepared: PreparedScoring): SimulatedScoring {
 export function assembleScoring(prepared: PreparedScoring, answers: readonly PairAnswer[], simulated: SimulatedScoring): ScoredTrips {
   const { sims, metrics, ranks, counts } = simulated;
   const { plan } = prepared;
-  const { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, simTrips } = prepared.state;
+  const { parsed, source, settings, problems, draws, isScored, pairsOfTrips, jobOf, legFlights, simTrips } = prepared.state;
   const scoredConnections: ScoredConnection[][] = [];
   const allMakeByDraw: Float64Array[] = [];
   // P(all connections) per trip and draw, in one block: a typed array per trip would get an
@@ -354,6 +356,8 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
   const allMake = new Float64Array(parsed.trips.length * draws).fill(1);
   // Each route pair's P(make) by draw, its summary and minimum layover, by slack (from the answers).
   const summaries = new Map<RoutePair, Map<number, { byDraw: Float64Array; pMake: number; interval: [number, number]; minLayover: number | null }>>();
+  // A pooled route's warning is the same for every connection on it: made once per route.
+  const pooledWarnings = new Map<RoutePosterior, RiskWarning>();
   parsed.trips.forEach((trip, tripIndex) => {
     const conns: ScoredConnection[] = [];
     const allByDraw = allMake.subarray(tripIndex * draws, (tripIndex + 1) * draws);
@@ -396,7 +400,7 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
           pMake,
           interval: summary.interval,
           minLayover,
-          warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrival, departure),
+          warnings: connectionWarnings(flags, c.layoverMinutes, mct.mctMinutes, mct.transferMinutes, arrival, departure, pooledWarnings),
         }),
       );
     });
@@ -434,7 +438,9 @@ export function assembleScoring(prepared: PreparedScoring, answers: readonly Pai
       paretoOptimal: rank.paretoOptimal,
     };
   });
-  const group: GroupSummary = { ...counts, topConnections: topConnections(trips.filter((t) => t.optionRank === 1)) };
+  const best = trips.filter((t) => t.optionRank === 1);
+  const bestFlights = legFlights.filter((_, k) => trips[k]!.optionRank === 1);
+  const group: GroupSummary = { ...counts, topConnections: topConnections(best, bestFlights) };
   const overrides = prepared.state.overrides;
   return {
     format: parsed.format,
@@ -458,6 +464,7 @@ function connectionWarnings(
   transfer: number,
   arrival: RoutePosterior,
   departure: RoutePosterior,
+  pooled: Map<RoutePosterior, RiskWarning>,
 ): RiskWarning[] {
   const out: RiskWarning[] = [];
   if (flags.includes('separate-tickets')) {
@@ -474,12 +481,16 @@ function connectionWarnings(
     out.push({ code: 'below-mct', message: `The layover of ${layover} minutes is below the minimum connection time of ${mct} minutes used here.` });
   }
   for (const p of [arrival, departure]) {
-    if (p.pooling !== 'route') {
-      out.push({
+    if (p.pooling === 'route') continue;
+    let warning = pooled.get(p);
+    if (!warning) {
+      warning = {
         code: 'pooled-route',
         message: `${p.origin}-${p.destination} ${p.kind}s were not in the fit data; the estimate is pooled from ${p.pooling === 'airports' ? 'its airports' : 'all routes'}, so its interval is wider.`,
-      });
+      };
+      pooled.set(p, warning);
     }
+    out.push(warning);
   }
   return out;
 }

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { summariseGroup } from '../../../shared/risk/group-summary';
+import { summariseGroup, topConnections } from '../../../shared/risk/group-summary';
 import { scoreTrips } from '../../../shared/risk/score-trips';
 import type { TripSimulation } from '../../../shared/risk/trip-simulation';
+import { groupTrips } from '../../fixtures/risk/group-trips';
 import { syntheticSource } from '../../fixtures/risk/synthetic-source';
 import { makeTrip, parsedOf, testCountryOf, type LegSpec } from '../../fixtures/risk/trips';
 
@@ -51,5 +52,31 @@ describe('summariseGroup', () => {
     const distribution = [0, 1, 2, 3].map((c) => counts.filter((x) => x === c).length / simulations);
     group.countDistribution.forEach((p, c) => expect(p).toBeCloseTo(distribution[c] ?? 0, 12));
     expect(group.countDistribution.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 12);
+  });
+});
+
+describe('topConnections', () => {
+  it('lists the flight pairs with the most expected misses, as a naive recount does, with or without flight numbers given', () => {
+    const scored = scoreTrips(groupTrips(60), syntheticSource(), { countryOf: testCountryOf, simulations: 300, seed: 5 });
+    const best = scored.trips.filter((t) => t.optionRank === 1);
+    // Reference: distinct travellers per pair of flights (number, local date, route), times P(miss).
+    const pairs = new Map<string, { who: Set<string>; pMiss: number; airport: string }>();
+    for (const trip of best) {
+      for (const c of trip.connections) {
+        if (!c.scored) continue;
+        const a = trip.legs[c.inboundLeg]!;
+        const b = trip.legs[c.inboundLeg + 1]!;
+        const key = [a.flight, a.departLocal.slice(0, 10), a.from, a.to, b.flight, b.departLocal.slice(0, 10), b.from, b.to].join('|');
+        const entry = pairs.get(key) ?? { who: new Set<string>(), pMiss: 1 - c.pMake!, airport: c.airport };
+        entry.who.add(trip.traveler || trip.id);
+        pairs.set(key, entry);
+      }
+    }
+    const expected = [...pairs.values()].map((e) => e.who.size * e.pMiss).sort((x, y) => y - x).slice(0, 10);
+    const own = topConnections(best);
+    expect(own.map((c) => c.expectedMisses)).toEqual(expected);
+    expect(own).toEqual(scored.group.topConnections);
+    expect(own.length).toBe(Math.min(10, pairs.size));
+    expect(topConnections([])).toEqual([]);
   });
 });
